@@ -1,0 +1,1 @@
+//! Kneepoint web app (placeholder until the browser issue lands).
