@@ -49,6 +49,21 @@ bench:
 	@echo "bench: criterion, full steady-state evaluation"
 	@$(CARGO) bench -p kneepoint-engine --bench evaluate -- --noplot
 
+## Browser tests (playwright-core on Debian chromium) against dist/.
+e2e: build setup-browser
+	@scripts/e2e.sh
+
+## Screenshots at 1024x768, 768x1024 and 390x844 into docs/screenshots/.
+screenshots: build setup-browser
+	@scripts/e2e.sh screenshots
+
+bench-web: build setup-browser
+	@scripts/e2e.sh bench
+
+## Independent SciPy reference for the duty-cycle integrator.
+reference:
+	@scripts/reference.sh
+
 clean:
 	@$(CARGO) clean
 	@rm -rf dist
