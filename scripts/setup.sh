@@ -56,7 +56,7 @@ fi
 npm_ready() {
   [ -x node_modules/.bin/wasm-opt ] && [ -d node_modules/playwright-core ] \
     && [ -d node_modules/axe-core ] \
-    && cmp -s package-lock.json node_modules/.package-lock.json 2>/dev/null
+    && [ "$(cat node_modules/.kneepoint-lock-sha 2>/dev/null)" = "$(sha256sum < package-lock.json)" ]
 }
 if [ "$want_web" = 1 ] || [ "$want_browser" = 1 ]; then
   if npm_ready; then
@@ -64,6 +64,7 @@ if [ "$want_web" = 1 ] || [ "$want_browser" = 1 ]; then
   else
     step "npm packages" "installing (npm ci)"
     npm ci --no-audit --no-fund --loglevel=error >/dev/null || fail "npm ci"
+    sha256sum < package-lock.json > node_modules/.kneepoint-lock-sha
   fi
   # Debian's binaryen 108 corrupts the output; only the npm one is used.
   wasm-opt --version | grep -q "version 1[2-9][0-9]" \
