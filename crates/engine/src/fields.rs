@@ -55,6 +55,7 @@ pub struct FieldSpec {
 const CM3: f64 = 1e-6;
 const MM: f64 = 1e-3;
 
+#[allow(clippy::too_many_arguments)] // one row of the table, positional on purpose
 const fn f(
     path: &'static str,
     label: &'static str,
