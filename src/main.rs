@@ -1,1 +1,2 @@
+//! Mounts the Kneepoint app.
 fn main() {}
