@@ -264,12 +264,18 @@ impl Circuit {
     }
 
     pub(crate) fn pump_point_unchecked(&self, p: f64) -> PumpPoint {
+        self.pump_point_at(p, self.unloader_closed_fraction(p))
+    }
+
+    /// The power unit at system pressure `p` with the unloader's closed
+    /// fraction forced to `f` (1 = shut): for the low corner and the
+    /// fast-motion pressure, which hold the unloader shut.
+    pub(crate) fn pump_point_at(&self, p: f64, f: f64) -> PumpPoint {
         let d = &self.design;
         // Small pump: laminar slip, never negative delivery.
         let leak_s = (self.k_s * p).min(self.qth_s);
         let q_s = self.qth_s - leak_s;
 
-        let f = self.unloader_closed_fraction(p);
         // p_L = A + B·Q_L², Q_L = Qth − K·p_L ⇒ K·B·Q² + Q − (Qth − K·A) = 0.
         let a = f * (p + self.p_cv);
         let b = f * f * f * self.k_cv + (1.0 - f).powi(3) * self.k_bp;
@@ -328,11 +334,19 @@ impl Circuit {
         // split exactly into leakage, check, unloader, relief and output.
         // A back-leak crosses from p to tank: all of p·Q_leak is lost, booked
         // under the check valve (its effect on p_bp is neglected).
+        // Across the unloader band the blended p_L can fall below p; the
+        // check valve then costs nothing and the unloader carries the whole
+        // p_L·Q_L − p·f·Q_L (≥ 0 because p_L ≥ f·p), so no loss is negative.
+        let (cv_loss, uv_loss) = if p_l >= p {
+            ((p_l - p) * (f * q_l), p_l * (q_l - f * q_l))
+        } else {
+            (0.0, (p_l - f * p) * q_l)
+        };
         let losses = PumpLosses {
             mechanical: shaft_power - self.qth_l * p_l - self.qth_s * p,
             leakage: leak_l * p_l + leak_s * p,
-            check_valve: (p_l - p) * (f * q_l) + back_leak * p,
-            unloader: p_l * (q_l - f * q_l),
+            check_valve: cv_loss + back_leak * p,
+            unloader: uv_loss,
             relief: p * q_relief,
         };
         let regime = if p >= self.p_rf {
@@ -638,7 +652,7 @@ fn validate(d: &Design) -> Result<(), ValidationErrors> {
         Pressure,
         r.relief_margin_min_pa,
     );
-    crate::cycle::validate(&d.cycle, &mut c);
+    crate::cycle::validate(d, &mut c);
     crate::faults::validate(&d.faults, &mut c);
     c.finish()
 }

@@ -8,7 +8,9 @@
 
 use serde::{Deserialize, Serialize};
 
-use crate::cycle::CycleSpec;
+use crate::cycle::{
+    CycleSpec, ForcePoint, Hold, PressingForce, Requirements, Reservoir, Segment,
+};
 use crate::faults::Faults;
 use crate::units::{BAR, LITRE, MINUTE};
 
@@ -363,7 +365,7 @@ pub fn workshop_press() -> Design {
             large_pump_relief_pa: None,
         },
         rules: Rules::default(),
-        cycle: CycleSpec::default(),
+        cycle: workshop_cycle(),
         faults: Faults::default(),
     }
 }
@@ -405,6 +407,7 @@ pub fn baler() -> Design {
         component_pa: 250.0 * BAR,
         large_pump_relief_pa: Some(60.0 * BAR),
     };
+    d.cycle = baler_cycle();
     d
 }
 
@@ -441,7 +444,145 @@ pub fn clamp() -> Design {
         component_pa: 160.0 * BAR,
         large_pump_relief_pa: Some(50.0 * BAR),
     };
+    d.cycle = clamp_cycle();
     d
+}
+
+const MM: f64 = 1e-3;
+const KN: f64 = 1e3;
+
+/// Workshop press cycle: approach 360 mm, press 40 mm against a part that
+/// stiffens from 20 to 100 kN, hold 1.5 s at relief, decompress, retract.
+fn workshop_cycle() -> CycleSpec {
+    CycleSpec {
+        segments: vec![
+            Segment::Approach {
+                distance_m: 360.0 * MM,
+                force_n: 1.5 * KN,
+            },
+            Segment::Pressing {
+                distance_m: 40.0 * MM,
+                force: PressingForce::Linear {
+                    from_n: 20.0 * KN,
+                    to_n: 100.0 * KN,
+                },
+            },
+            Segment::Dwell {
+                time_s: 1.5,
+                hold: Hold::AtRelief,
+            },
+            Segment::Decompression { time_s: 0.5 },
+            Segment::Retract {
+                distance_m: 400.0 * MM,
+                force_n: 1.0 * KN,
+            },
+            Segment::Idle { time_s: 4.0 },
+        ],
+        dead_volume_m3: 0.8 * LITRE,
+        reservoir: Reservoir {
+            oil_volume_m3: Some(80.0 * LITRE),
+            wetted_area_m2: Some(1.6),
+            ..Reservoir::default()
+        },
+        requirements: Requirements {
+            approach_speed_ms: Some(50.0 * MM),
+            pressing_speed_ms: Some(8.0 * MM),
+            cycle_time_s: Some(22.0),
+        },
+        ..CycleSpec::default()
+    }
+}
+
+/// Baler cycle: long approach, compaction force rising steeply over the last
+/// 200 mm (a table), bale held with the pumps unloaded, decompress, retract.
+fn baler_cycle() -> CycleSpec {
+    let pt = |mm: f64, kn: f64| ForcePoint {
+        position_m: mm * MM,
+        force_n: kn * KN,
+    };
+    CycleSpec {
+        segments: vec![
+            Segment::Approach {
+                distance_m: 1000.0 * MM,
+                force_n: 3.0 * KN,
+            },
+            Segment::Pressing {
+                distance_m: 200.0 * MM,
+                force: PressingForce::Table {
+                    points: vec![
+                        pt(0.0, 5.0),
+                        pt(80.0, 20.0),
+                        pt(150.0, 80.0),
+                        pt(200.0, 190.0),
+                    ],
+                },
+            },
+            Segment::Dwell {
+                time_s: 3.0,
+                hold: Hold::Unloaded,
+            },
+            Segment::Decompression { time_s: 1.0 },
+            Segment::Retract {
+                distance_m: 1200.0 * MM,
+                force_n: 2.0 * KN,
+            },
+            Segment::Idle { time_s: 8.0 },
+        ],
+        dead_volume_m3: 1.5 * LITRE,
+        reservoir: Reservoir {
+            oil_volume_m3: Some(250.0 * LITRE),
+            wetted_area_m2: Some(2.6),
+            ..Reservoir::default()
+        },
+        requirements: Requirements {
+            approach_speed_ms: Some(150.0 * MM),
+            pressing_speed_ms: Some(15.0 * MM),
+            cycle_time_s: Some(40.0),
+        },
+        ..CycleSpec::default()
+    }
+}
+
+/// Clamp cycle: close 70 mm, clamp over 10 mm from 2 to 30 kN, hold 10 s
+/// with the pumps unloaded (pilot-operated check), release, open.
+fn clamp_cycle() -> CycleSpec {
+    CycleSpec {
+        segments: vec![
+            Segment::Approach {
+                distance_m: 70.0 * MM,
+                force_n: 0.3 * KN,
+            },
+            Segment::Pressing {
+                distance_m: 10.0 * MM,
+                force: PressingForce::Linear {
+                    from_n: 2.0 * KN,
+                    to_n: 30.0 * KN,
+                },
+            },
+            Segment::Dwell {
+                time_s: 10.0,
+                hold: Hold::Unloaded,
+            },
+            Segment::Decompression { time_s: 0.3 },
+            Segment::Retract {
+                distance_m: 80.0 * MM,
+                force_n: 0.3 * KN,
+            },
+            Segment::Idle { time_s: 3.0 },
+        ],
+        dead_volume_m3: 0.3 * LITRE,
+        reservoir: Reservoir {
+            oil_volume_m3: Some(30.0 * LITRE),
+            wetted_area_m2: Some(0.7),
+            ..Reservoir::default()
+        },
+        requirements: Requirements {
+            approach_speed_ms: None,
+            pressing_speed_ms: None,
+            cycle_time_s: Some(16.0),
+        },
+        ..CycleSpec::default()
+    }
 }
 
 /// ISO VG 46 mineral oil near 40 °C: 46 cSt, 870 kg/m³, β_e 1.0 GPa

@@ -67,7 +67,12 @@ pub enum ErrorKind {
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub struct FieldError {
     /// Dotted path of the field in the design file, e.g. `cylinder.rod_m`.
+    /// Inside a list the index is left out (`cycle.segments[].distance_m`)
+    /// and held in `index`; [`FieldError::path`] puts it back.
     pub field: &'static str,
+    /// Position in the list the field belongs to, if it is in one.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub index: Option<usize>,
     /// The value found (SI), when there is one.
     pub value: f64,
     /// What is wrong.
@@ -75,6 +80,14 @@ pub struct FieldError {
 }
 
 impl FieldError {
+    /// The full path with the list index, e.g. `cycle.segments[2].distance_m`.
+    pub fn path(&self) -> String {
+        match self.index {
+            Some(i) => self.field.replacen("[]", &format!("[{i}]"), 1),
+            None => self.field.to_string(),
+        }
+    }
+
     /// The message for people, with numbers in `units`, saying what to change.
     pub fn message(&self, units: UnitSystem) -> String {
         use ErrorKind::*;
@@ -112,7 +125,7 @@ impl FieldError {
 
 impl fmt::Display for FieldError {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        write!(f, "{}: {}", self.field, self.message(UnitSystem::Metric))
+        write!(f, "{}: {}", self.path(), self.message(UnitSystem::Metric))
     }
 }
 
@@ -121,9 +134,12 @@ impl fmt::Display for FieldError {
 pub struct ValidationErrors(pub Vec<FieldError>);
 
 impl ValidationErrors {
-    /// The first error for `field`, if any.
+    /// The first error for `field`, if any; `field` may be the bare path
+    /// (`cycle.segments[].distance_m`) or the indexed one (`...[2]...`).
     pub fn for_field(&self, field: &str) -> Option<&FieldError> {
-        self.0.iter().find(|e| e.field == field)
+        self.0
+            .iter()
+            .find(|e| e.field == field || (e.index.is_some() && e.path() == field))
     }
     /// True when there is no error.
     pub fn is_empty(&self) -> bool {
@@ -149,11 +165,18 @@ impl std::error::Error for ValidationErrors {}
 #[derive(Default)]
 pub(crate) struct Checker {
     pub(crate) errors: Vec<FieldError>,
+    /// List index given to every error pushed while it is set.
+    pub(crate) index: Option<usize>,
 }
 
 impl Checker {
     pub(crate) fn push(&mut self, field: &'static str, value: f64, kind: ErrorKind) {
-        self.errors.push(FieldError { field, value, kind });
+        self.errors.push(FieldError {
+            field,
+            index: self.index,
+            value,
+            kind,
+        });
     }
 
     /// Finite and > 0. Returns whether it passed.

@@ -10,6 +10,9 @@ use crate::design::Design;
 use crate::error::Checker;
 use crate::units::Quantity;
 
+/// Highest relief scale a fault may carry (a relief set 50 % high).
+pub const RELIEF_SCALE_MAX: f64 = 1.5;
+
 /// How a stuck unloading valve sits.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize)]
 #[serde(rename_all = "snake_case")]
@@ -39,7 +42,8 @@ pub struct Faults {
     /// Unloading valve stuck open or shut.
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub unloader_stuck: Option<Stuck>,
-    /// Relief valve actually set to this fraction of its design settings.
+    /// Relief valve actually set to this multiple of its design settings
+    /// (below 1: set low or leaking; above 1: set high), 0.05 to 1.5.
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub relief_scale: Option<f64>,
 }
@@ -93,6 +97,12 @@ pub(crate) fn validate(f: &Faults, c: &mut Checker) {
         c.positive("faults.unloading_setting_pa", Quantity::Pressure, v);
     }
     if let Some(v) = f.relief_scale {
-        c.range("faults.relief_scale", Quantity::Ratio, v, 0.05, 1.0);
+        c.range(
+            "faults.relief_scale",
+            Quantity::Ratio,
+            v,
+            0.05,
+            RELIEF_SCALE_MAX,
+        );
     }
 }

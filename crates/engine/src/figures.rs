@@ -4,7 +4,7 @@
 use serde::Serialize;
 
 use crate::circuit::Circuit;
-use crate::motion::Direction;
+use crate::motion::{increasing_root, Direction};
 
 /// Which corner of the power curve sizes the motor.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
@@ -29,7 +29,8 @@ pub struct Corners {
     /// setting that needs no more motor than pressing does.
     pub equal_corner_unloading_pa: f64,
     /// Small-pump displacement that would make both corners equal at the
-    /// present unloading setting (m³/rev).
+    /// present unloading setting (m³/rev); infinite only when no small pump
+    /// can (an injected fault holding the unloader at or above the relief).
     pub equal_corner_small_displacement_m3: f64,
     /// Small-pump theoretical flow at that displacement (m³/s).
     pub equal_corner_small_flow_m3s: f64,
@@ -48,13 +49,6 @@ pub fn single_pump_power(c: &Circuit, p: f64) -> f64 {
     q * p.max(0.0) / d.small_pump.hydromechanical_efficiency + t0 * c.omega()
 }
 
-fn with_unloading(c: &Circuit, p_u: f64) -> Circuit {
-    let mut k = c.clone();
-    k.band = k.band / k.p_u * p_u;
-    k.p_u = p_u;
-    k
-}
-
 fn with_small_displacement(c: &Circuit, v: f64) -> Circuit {
     let mut k = c.clone();
     let scale = v / c.design().small_pump.displacement_m3;
@@ -71,8 +65,14 @@ fn with_small_displacement(c: &Circuit, v: f64) -> Circuit {
 /// ```
 /// (brief §3.3 step 3, from the pump model of §2.2).
 pub fn low_corner(c: &Circuit) -> f64 {
-    let p = c.p_u.min(c.p_rf);
-    c.pump_point_unchecked(p).shaft_power_w
+    low_corner_at(c, c.p_u)
+}
+
+/// The low corner if the unloader were set to `p_u`: the power unit at
+/// p_u (at most p_rf) with the unloader still shut, unless a fault holds it.
+fn low_corner_at(c: &Circuit, p_u: f64) -> f64 {
+    let shut = c.unloader_stuck.map_or(1.0, |open| 1.0 - open);
+    c.pump_point_at(p_u.min(c.p_rf), shut).shaft_power_w
 }
 
 /// High corner: small pump at relief full flow, large pump at p_bp.
@@ -83,22 +83,6 @@ pub fn low_corner(c: &Circuit) -> f64 {
 /// ```
 pub fn high_corner(c: &Circuit) -> f64 {
     c.pump_point_unchecked(c.p_rf).shaft_power_w
-}
-
-/// Bisection for the root of an increasing function on [lo, hi].
-fn bisect(mut lo: f64, mut hi: f64, f: impl Fn(f64) -> f64) -> f64 {
-    for _ in 0..200 {
-        let mid = 0.5 * (lo + hi);
-        if mid <= lo || mid >= hi {
-            break;
-        }
-        if f(mid) < 0.0 {
-            lo = mid;
-        } else {
-            hi = mid;
-        }
-    }
-    0.5 * (lo + hi)
 }
 
 /// Corner powers and the equal-corner figures.
@@ -116,26 +100,41 @@ pub fn corners(c: &Circuit) -> Corners {
     let high = high_corner(c);
     let p_rf = c.p_rf;
     // P_low rises with p_u; clamp the answer to 0 ..= p_rf.
-    let p_star = if low_corner(&with_unloading(c, 0.0)) >= high {
+    let excess = |pu: f64| low_corner_at(c, pu) - high;
+    let (at_zero, at_rf) = (excess(0.0), excess(p_rf));
+    let p_star = if at_zero >= 0.0 {
         0.0
-    } else if low_corner(&with_unloading(c, p_rf)) <= high {
+    } else if at_rf <= 0.0 {
         p_rf
     } else {
-        bisect(0.0, p_rf, |pu| low_corner(&with_unloading(c, pu)) - high)
+        increasing_root((0.0, at_zero), (p_rf, at_rf), excess, |_| 1e-13 * high)
     };
-    // P_high − P_low rises with the small displacement (it adds
-    // (p_rf − p_u)·n/η per unit); search up to 1000× the present one.
+    // P_high − P_low rises with the small displacement: each unit adds
+    // (p_rf − p_u)·n/η_hm,S, so it is affine in it and the search below ends
+    // in a step or two. Widen the bracket until it holds the root; with the
+    // unloader at or above the relief (a fault) there is none: infinite.
     let v0 = c.design().small_pump.displacement_m3;
     let diff = |v: f64| {
         let k = with_small_displacement(c, v);
         high_corner(&k) - low_corner(&k)
     };
-    let v_star = if diff(v0 * 1e-6) >= 0.0 {
+    let d_zero = diff(0.0);
+    let v_star = if d_zero >= 0.0 {
         0.0
-    } else if diff(v0 * 1e3) <= 0.0 {
-        f64::INFINITY
     } else {
-        bisect(v0 * 1e-6, v0 * 1e3, diff)
+        let mut hi = (v0, diff(v0));
+        for _ in 0..64 {
+            if hi.1 >= 0.0 {
+                break;
+            }
+            let v = hi.0 * 16.0;
+            hi = (v, diff(v));
+        }
+        if hi.1 >= 0.0 {
+            increasing_root((0.0, d_zero), hi, diff, |_| 1e-13 * high)
+        } else {
+            f64::INFINITY
+        }
     };
     let n_rps = c.design().drive.speed_rpm / 60.0;
     Corners {

@@ -11,8 +11,9 @@
 //! g(p) = p − p_req(Q_out(p)) = 0
 //! ```
 //! Q_out(p) does not rise with p and p_req(Q) does not fall with Q, so g is
-//! increasing and its root in 0 ..= p_rf is unique: bisection always finds it
-//! (brief §5.2). If g(p_rf) < 0 the force is not reachable.
+//! increasing and its root in 0 ..= p_rf is unique: a bracketed search
+//! always finds it (brief §5.2 bisection; here sped up, see
+//! `increasing_root`). If g(p_rf) < 0 the force is not reachable.
 
 use serde::Serialize;
 
@@ -151,6 +152,78 @@ fn required(c: &Circuit, dir: Direction, force: f64, q: f64) -> Required {
     }
 }
 
+/// System pressure that moves `force` in `dir` with `q` reaching the
+/// cylinder: p_req(F, Q) of the module docs. It is linear in F with slope
+/// 1/A_in (A_in the pressurised area), which the duty cycle uses to invert it.
+pub(crate) fn required_pressure(c: &Circuit, dir: Direction, force: f64, q: f64) -> f64 {
+    required(c, dir, force, q).p
+}
+
+/// Pressurised (driving) area in `dir`: A_cap extending, A_ann retracting.
+pub(crate) fn driving_area(c: &Circuit, dir: Direction) -> f64 {
+    match dir {
+        Direction::Extend => c.cap_area(),
+        Direction::Retract => c.annulus_area(),
+    }
+}
+
+/// Root of a non-decreasing `g` on [lo, hi], given g(lo) < 0 ≤ g(hi) as
+/// `(x, g(x))` pairs: bracketed false position with the Illinois rule
+/// (halve the weight of an end kept twice running), and a bisection step
+/// whenever the bracket has failed to halve twice running, so it never
+/// needs more steps than about three bisections would. Stops at
+/// |g(x)| ≤ tol(x) or when the bracket is down to adjacent floats, and then
+/// returns the end with the smaller |g|. Numerical-analysis textbook method
+/// (Dowell and Jarratt's Illinois variant of regula falsi, from memory).
+pub(crate) fn increasing_root(
+    (mut lo, mut g_lo): (f64, f64),
+    (mut hi, mut g_hi): (f64, f64),
+    g: impl Fn(f64) -> f64,
+    tol: impl Fn(f64) -> f64,
+) -> f64 {
+    let (mut w_lo, mut w_hi) = (g_lo, g_hi);
+    let mut kept: i8 = 0;
+    let mut slow: u8 = 0;
+    for _ in 0..300 {
+        let width = hi - lo;
+        let mid = lo + 0.5 * width;
+        let mut x = if slow >= 2 {
+            mid
+        } else {
+            hi - w_hi * (width / (w_hi - w_lo))
+        };
+        if !(x > lo && x < hi) {
+            x = mid;
+        }
+        if !(x > lo && x < hi) {
+            break;
+        }
+        let gx = g(x);
+        if gx < 0.0 {
+            (lo, g_lo, w_lo) = (x, gx, gx);
+            if kept < 0 {
+                w_hi *= 0.5;
+            }
+            kept = -1;
+        } else {
+            (hi, g_hi, w_hi) = (x, gx, gx);
+            if kept > 0 {
+                w_lo *= 0.5;
+            }
+            kept = 1;
+        }
+        slow = if hi - lo > 0.5 * width { slow + 1 } else { 0 };
+        if gx.abs() <= tol(x) {
+            return x;
+        }
+    }
+    if g_lo.abs() <= g_hi.abs() {
+        lo
+    } else {
+        hi
+    }
+}
+
 /// Largest force the cylinder can hold in `dir` at relief full flow, zero speed.
 pub fn max_force(c: &Circuit, dir: Direction) -> f64 {
     match dir {
@@ -186,25 +259,9 @@ pub(crate) fn solve_with(
     let p = if g_lo >= 0.0 {
         0.0
     } else {
-        // Bisection to the resolution of f64: g is monotone (module docs).
-        let (mut lo, mut hi) = (0.0_f64, p_max);
-        for _ in 0..200 {
-            let mid = 0.5 * (lo + hi);
-            if mid <= lo || mid >= hi {
-                break;
-            }
-            if g(mid).0 < 0.0 {
-                lo = mid;
-            } else {
-                hi = mid;
-            }
-        }
-        // Pick the end with the smaller residual.
-        if g(lo).0.abs() <= g(hi).0.abs() {
-            lo
-        } else {
-            hi
-        }
+        // g rises with slope ≥ 1 (module docs), so |g| bounds the pressure
+        // error: stop at a residual of 1e-13 of the pressure.
+        increasing_root((0.0, g_lo), (p_max, g_hi), |p| g(p).0, |p| 1e-13 * p)
     };
     let (res, pp) = g(p);
     let q = pp.out_flow_m3s;
@@ -272,9 +329,7 @@ impl Circuit {
         dir: Direction,
         force: f64,
     ) -> Result<f64, SolveError> {
-        let mut shut = self.clone();
-        shut.unloader_stuck = Some(0.0);
-        solve_with(&shut, dir, force, |p| shut.pump_point_unchecked(p))
+        solve_with(self, dir, force, |p| self.pump_point_at(p, 1.0))
             .map(|m| m.pump.pressure_pa)
     }
 }

@@ -857,3 +857,28 @@ fn equal_pumps_staircase() {
         ],
     );
 }
+
+/// The equal-corner small pump when it is far from the present one: a
+/// 250:1 pump pair with the relief only 5 % above the unloader needs a
+/// small pump many times larger, still a finite figure.
+#[test]
+fn equal_corner_small_pump_far_from_the_present_one() {
+    const SRC: &str =
+        "brief §3.3 step 4, Q_S* = Q_L·(p_u + Δp_cv − p_bp)/(p_rf − p_u) [D]";
+    let mut d = ideal(250.0 * GPM, 1.0 * GPM, 0.9);
+    settings(&mut d, 1000.0 * PSI, 1040.0 * PSI, 1050.0 * PSI);
+    d.unloading_valve.back_pressure_pa = 50.0 * PSI;
+    d.unloading_valve.back_pressure_flow_m3s = 250.0 * GPM;
+    let k = corners(&circuit(&d));
+    let expected = 250.0 * (1000.0 - 50.0) / (1050.0 - 1000.0);
+    check(
+        "equal-corner small pump, 250:1",
+        &[row(
+            "Q_S* gpm",
+            k.equal_corner_small_flow_m3s / GPM,
+            expected,
+            CLOSED_FORM,
+            SRC,
+        )],
+    );
+}
