@@ -27,6 +27,7 @@
 use crate::circuit::{Circuit, PumpPoint, Regime};
 use crate::cycle::results::{CycleError, HeatBySource, Sample, SegmentResult};
 use crate::cycle::spec::{Hold, PressingForce, Segment};
+use crate::lines::{RE_LAMINAR, RE_TURBULENT};
 use crate::motion::{driving_area, required_pressure, Direction};
 
 /// Options of the integration.
@@ -176,7 +177,11 @@ struct Run<'a> {
     p_rf: f64,
     p_stall: f64,
     p_top: f64,
-    breaks: [f64; 3],
+    p_rc: f64,
+    /// Pressures where the staircase changes regime or a hose's friction
+    /// law changes (Re = 2300, 4000), per direction, sorted.
+    breaks_ext: Vec<f64>,
+    breaks_ret: Vec<f64>,
     // State.
     x: f64,
     p_ch: f64,
@@ -215,11 +220,9 @@ pub(crate) fn run(
         p_rf: c.relief_full_pa(),
         p_stall: 0.0,
         p_top: 0.0,
-        breaks: [
-            c.unloading_pa(),
-            c.unloading_full_pa(),
-            c.relief_cracking_pa(),
-        ],
+        p_rc: c.relief_cracking_pa(),
+        breaks_ext: Vec::new(),
+        breaks_ret: Vec::new(),
         x: 0.0,
         p_ch: 0.0,
         side: None,
@@ -241,6 +244,8 @@ pub(crate) fn run(
     let qth_s = c.small_theoretical_flow();
     r.p_stall = r.flow_pressure(STALL_FLOW_FRACTION * qth_s);
     r.p_top = r.flow_pressure(HOLD_FLOW_FRACTION * qth_s);
+    r.breaks_ext = r.breakpoints(Direction::Extend);
+    r.breaks_ret = r.breakpoints(Direction::Retract);
     let mut out = Vec::with_capacity(segments.len());
     for (i, s) in segments.iter().enumerate() {
         out.push(r.segment(i, s)?);
@@ -295,6 +300,46 @@ impl Run<'_> {
             }
         }
         lo
+    }
+
+    /// Where a piece must be split in `dir`: the unloader start and end,
+    /// relief cracking, and the pressures at which a hose's Reynolds number
+    /// crosses 2300 or 4000 (the friction factor has a kink there).
+    fn breakpoints(&mut self, dir: Direction) -> Vec<f64> {
+        let c = self.c;
+        let mut v = vec![
+            c.unloading_pa(),
+            c.unloading_full_pa(),
+            c.relief_cracking_pa(),
+        ];
+        let ln = &c.design().lines;
+        let nu = c.design().oil.viscosity_m2s;
+        let phi = c.area_ratio();
+        // Supply flow Q at which a hose of bore d is at Reynolds number re.
+        let hoses = [
+            (ln.pressure_hose.as_ref(), 1.0),
+            (
+                ln.return_hose.as_ref(),
+                match dir {
+                    Direction::Extend => phi,
+                    Direction::Retract => 1.0 / phi,
+                },
+            ),
+        ];
+        let q0 = self.pump(0.0).out_flow_m3s;
+        for (h, scale) in hoses {
+            let Some(h) = h else { continue };
+            for re in [RE_LAMINAR, RE_TURBULENT] {
+                let q = scale * re * nu * std::f64::consts::PI * h.bore_m / 4.0;
+                if q.is_finite() && q > 0.0 && q < q0 {
+                    v.push(self.flow_pressure(q));
+                }
+            }
+        }
+        v.retain(|p| p.is_finite() && *p > 0.0 && *p < self.p_rf);
+        v.sort_by(f64::total_cmp);
+        v.dedup();
+        v
     }
 
     /// Force moved at steady system pressure `p`: (p − p_req(0, Q))·A.
@@ -512,7 +557,7 @@ impl Run<'_> {
                     f_b: fb,
                     x0,
                 };
-                for (lo, hi) in self.split(p_a, p_b) {
+                for (lo, hi) in self.split(dir, p_a, p_b) {
                     let piece = self.integrate_travel(&law, lo, hi)?;
                     self.accumulate(&piece);
                 }
@@ -526,12 +571,14 @@ impl Run<'_> {
 
     /// Sub-intervals of a pressure run from `a` to `b` (either order), split
     /// at the staircase breakpoints, in the order travelled.
-    fn split(&self, a: f64, b: f64) -> Vec<(f64, f64)> {
+    fn split(&self, dir: Direction, a: f64, b: f64) -> Vec<(f64, f64)> {
         let (lo, hi) = (a.min(b), a.max(b));
         let mut pts = vec![lo];
-        let mut br = self.breaks;
-        br.sort_by(f64::total_cmp);
-        for p in br {
+        let br = match dir {
+            Direction::Extend => &self.breaks_ext,
+            Direction::Retract => &self.breaks_ret,
+        };
+        for &p in br {
             if p > lo && p < hi && p > *pts.last().unwrap_or(&lo) {
                 pts.push(p);
             }
@@ -550,7 +597,7 @@ impl Run<'_> {
     /// Parameter for a sub-interval: s = p, or s = −ln(p_rf − p) in the
     /// relief band. Returns (s_a, s_b, log?).
     fn param(&self, a: f64, b: f64) -> (f64, f64, bool) {
-        if a.min(b) >= self.breaks[2] && a.max(b) < self.p_rf {
+        if a.min(b) >= self.p_rc && a.max(b) < self.p_rf {
             (-(self.p_rf - a).ln(), -(self.p_rf - b).ln(), true)
         } else {
             (a, b, false)
@@ -570,7 +617,7 @@ impl Run<'_> {
     /// rise is integrated, a fall releases oil energy at once.
     fn transition(&mut self, dir: Direction, target: f64) -> Result<(), CycleError> {
         if target > self.p_ch {
-            for (lo, hi) in self.split(self.p_ch, target) {
+            for (lo, hi) in self.split(dir, self.p_ch, target) {
                 let piece = self.integrate_rise(dir, lo, hi)?;
                 self.accumulate(&piece);
             }
@@ -789,7 +836,7 @@ impl Run<'_> {
     ) -> Result<f64, CycleError> {
         let mut t = 0.0;
         if to > from {
-            for (lo, hi) in self.split(from, to) {
+            for (lo, hi) in self.split(dir, from, to) {
                 t += self.integrate_rise(dir, lo, hi)?.sum(DT);
             }
         }
@@ -854,11 +901,12 @@ impl Run<'_> {
         for nd in &piece.nodes {
             self.stats(nd);
         }
-        let dt = piece.sum(DT);
+        // The clock advances by the same panel sums the samples carry.
+        let dt = t - self.t;
         self.regime_time(piece.nodes[n].regime, dt);
         self.stored += piece.sum(STORED);
         self.seg.panels += n as u32;
-        self.t += dt;
+        self.t = t;
     }
 
     fn regime_time(&mut self, regime: Regime, dt: f64) {
@@ -881,8 +929,7 @@ impl Run<'_> {
             a.v_max = Some(a.v_max.map_or(s, |m| m.max(s)));
             self.q_sup_max = self.q_sup_max.max(n.q);
             self.q_ret_max = self.q_ret_max.max(n.q_ret);
-            if self.pressing && n.p > self.breaks[2] && self.relief_in_pressing.is_none()
-            {
+            if self.pressing && n.p > self.p_rc && self.relief_in_pressing.is_none() {
                 self.relief_in_pressing = Some((self.index, n.x, n.p));
             }
         }
