@@ -169,6 +169,14 @@ proptest! {
     }
 
     #[test]
+    fn design_files_reload_bit_for_bit(d in valid_design()) {
+        let text = kneepoint_engine::io::design_to_json(&d);
+        let back = kneepoint_engine::io::parse_design(&text)
+            .map_err(|e| TestCaseError::fail(e.to_string()))?;
+        prop_assert_eq!(back, d);
+    }
+
+    #[test]
     fn every_field_survives_metric_us_metric(d in valid_design()) {
         for s in FIELDS {
             let si = fields::get(&d, s.path).expect("known field");
