@@ -1,14 +1,22 @@
 //! Kneepoint in the browser: inputs, charts and results around the engine.
 //!
-//! Pure modules (no web crates, tested natively): [`fmt`], [`ticks`],
-//! [`chart`], [`url_codec`], [`base64url`], [`motor`], [`state`].
+//! Pure modules (no web crates, unit-tested natively): [`fmt`], [`ticks`],
+//! [`chart`], [`url_codec`], [`base64url`], [`motor`], [`model`],
+//! [`summary`], [`presets`]. Reactive state: [`state`]. Browser glue:
+//! [`browser`]. Components and views: [`components`], [`views`], [`app`].
 #![forbid(unsafe_code)]
 
+pub mod app;
 pub mod base64url;
+pub mod browser;
 pub mod chart;
+pub mod components;
 pub mod fmt;
 pub mod model;
 pub mod motor;
+pub mod presets;
+pub mod state;
 pub mod summary;
 pub mod ticks;
 pub mod url_codec;
+pub mod views;

@@ -1,2 +1,4 @@
-//! Mounts the Kneepoint app.
-fn main() {}
+//! Mounts the Kneepoint app; everything else lives in the library.
+fn main() {
+    kneepoint::app::start();
+}

@@ -1,0 +1,296 @@
+//! The page: header (views, units, link, print, safety), notices, the open
+//! view, and the address kept in step with the design.
+
+use std::time::Duration;
+
+use kneepoint_engine::{Design, UnitSystem};
+use leptos::leptos_dom::helpers::TimeoutHandle;
+use leptos::prelude::*;
+
+use crate::browser::{self, SESSION_KEY};
+use crate::components::charts::Cursor;
+use crate::components::safety::SafetyPanel;
+use crate::state::{AppState, NoticeKind, ViewId};
+use crate::url_codec;
+use crate::views::circuit::CircuitView;
+
+/// What the page opens with.
+struct Boot {
+    design: Design,
+    units: UnitSystem,
+    view: Option<ViewId>,
+    notice: Option<String>,
+}
+
+/// The design from the address, else the last session on this device,
+/// else the first demo design. A link that cannot be read gives a notice
+/// and the demo design.
+fn boot() -> Boot {
+    let frag = browser::fragment();
+    let from = |s: url_codec::Shared, notice| Boot {
+        design: s.design,
+        units: s.units,
+        view: s.view.as_deref().and_then(ViewId::from_code),
+        notice,
+    };
+    if !frag.trim().is_empty() {
+        return match url_codec::decode(&frag) {
+            Ok(s) => from(s, None),
+            Err(e) => Boot {
+                design: Design::default(),
+                units: UnitSystem::Metric,
+                view: None,
+                notice: Some(e.message()),
+            },
+        };
+    }
+    match browser::storage_get(SESSION_KEY).map(|s| url_codec::decode(&s)) {
+        Some(Ok(s)) => from(s, None),
+        _ => Boot {
+            design: Design::default(),
+            units: UnitSystem::Metric,
+            view: None,
+            notice: None,
+        },
+    }
+}
+
+/// The link fragment of the state now.
+fn fragment_now(st: &AppState) -> String {
+    url_codec::encode(
+        &st.design.get_untracked(),
+        st.units.get_untracked(),
+        Some(st.view.get_untracked().code()),
+    )
+}
+
+/// Keeps the address (and the session copy on this device) in step with
+/// the design, a quarter second after the last change, without adding
+/// history entries.
+fn sync_address(st: AppState) {
+    let pending = StoredValue::new(None::<TimeoutHandle>);
+    let last = StoredValue::new(String::new());
+    Effect::new(move |_| {
+        // Track every part of the link; encode only when the edits pause.
+        st.design.track();
+        st.units.track();
+        st.view.track();
+        if let Some(h) = pending.get_value() {
+            h.clear();
+        }
+        let h = set_timeout_with_handle(
+            move || {
+                let frag = fragment_now(&st);
+                if last.get_value() != frag {
+                    browser::replace_fragment(&frag);
+                    let _ = browser::storage_set(SESSION_KEY, &frag);
+                    last.set_value(frag);
+                }
+            },
+            Duration::from_millis(250),
+        )
+        .ok();
+        pending.set_value(h);
+    });
+    // A link pasted into the address bar of the open page.
+    let _ = window_event_listener(leptos::ev::hashchange, move |_| {
+        let frag = browser::fragment();
+        if frag.trim().is_empty() || frag == last.get_value() || frag == fragment_now(&st)
+        {
+            return;
+        }
+        match url_codec::decode(&frag) {
+            Ok(s) => {
+                st.units.set(s.units);
+                st.load(s.design);
+                last.set_value(frag);
+            }
+            Err(e) => st.notify(NoticeKind::Problem, e.message()),
+        }
+    });
+}
+
+/// Notices at the top of the page.
+#[component]
+fn Notices() -> impl IntoView {
+    let st = expect_context::<AppState>();
+    view! {
+        <div class="notices" aria-live="polite">
+            {move || {
+                st.notices
+                    .get()
+                    .into_iter()
+                    .map(|n| {
+                        let id = n.id;
+                        view! {
+                            <div
+                                class="notice"
+                                class:problem=n.kind == NoticeKind::Problem
+                                role=if n.kind == NoticeKind::Problem { "alert" } else { "status" }
+                                data-testid="notice"
+                            >
+                                <p>{n.text}</p>
+                                <button
+                                    type="button"
+                                    on:click=move |_| st.notices.update(|v| v.retain(|x| x.id != id))
+                                >
+                                    "Dismiss"
+                                </button>
+                            </div>
+                        }
+                    })
+                    .collect_view()
+            }}
+        </div>
+    }
+}
+
+/// The unit toggle: one choice for every field, chart and result.
+#[component]
+fn UnitToggle() -> impl IntoView {
+    let st = expect_context::<AppState>();
+    let button = move |u: UnitSystem, label: &'static str, testid: &'static str| {
+        view! {
+            <button
+                type="button"
+                aria-pressed=move || (st.units.get() == u).to_string()
+                data-testid=testid
+                on:click=move |_| st.units.set(u)
+            >
+                {label}
+            </button>
+        }
+    };
+    view! {
+        <div class="toggle" role="group" aria-label="Units">
+            {button(UnitSystem::Metric, "Metric", "units-metric")}
+            {button(UnitSystem::Us, "US", "units-us")}
+        </div>
+    }
+}
+
+/// Copy-link action, with the link shown for copying by hand.
+#[component]
+fn ShareLink() -> impl IntoView {
+    let st = expect_context::<AppState>();
+    let link = RwSignal::new(None::<(String, bool)>);
+    let copy = move |_| {
+        let url = format!("{}#{}", browser::page_address(), fragment_now(&st));
+        let copied = browser::copy_to_clipboard(&url);
+        link.set(Some((url, copied)));
+    };
+    view! {
+        <button type="button" on:click=copy data-testid="copy-link">
+            "Copy link"
+        </button>
+        {move || {
+            link.get()
+                .map(|(url, copied)| {
+                    view! {
+                        <div class="share" data-testid="share">
+                            <label for="share-link">
+                                {if copied {
+                                    "Link copied. It opens this design exactly:"
+                                } else {
+                                    "Select and copy this link; it opens this design exactly:"
+                                }}
+                            </label>
+                            <input id="share-link" type="text" readonly prop:value=url />
+                            <button type="button" on:click=move |_| link.set(None)>
+                                "Done"
+                            </button>
+                        </div>
+                    }
+                })
+        }}
+    }
+}
+
+/// The whole page.
+#[component]
+pub fn App() -> impl IntoView {
+    let b = boot();
+    let st = AppState::new(b.design, b.units);
+    if let Some(v) = b.view {
+        st.view.set(v);
+    }
+    provide_context(st);
+    provide_context(Cursor(RwSignal::new(None)));
+    if let Some(n) = b.notice {
+        st.notify(NoticeKind::Problem, n);
+    }
+    sync_address(st);
+    browser::register_service_worker();
+    let safety_open = RwSignal::new(false);
+    let print = move |_| {
+        if let Some(w) = web_sys::window() {
+            let _ = w.print();
+        }
+    };
+    view! {
+        <header class="top">
+            <div class="brand">
+                <img src="icons/icon.svg" alt="" width="36" height="36" />
+                <div>
+                    <h1>"Kneepoint"</h1>
+                    <p class="tagline">"Two-pump hi-lo circuits: staircase, power, settings"</p>
+                </div>
+            </div>
+            <nav class="views" aria-label="Views">
+                {ViewId::ALL
+                    .iter()
+                    .map(|&v| {
+                        view! {
+                            <button
+                                type="button"
+                                aria-current=move || (st.view.get() == v).then_some("page")
+                                on:click=move |_| st.view.set(v)
+                            >
+                                {v.label()}
+                            </button>
+                        }
+                    })
+                    .collect_view()}
+            </nav>
+            <div class="tools">
+                <UnitToggle />
+                <ShareLink />
+                <button type="button" on:click=print>
+                    "Print sheet"
+                </button>
+                <button
+                    type="button"
+                    class="safety-button"
+                    aria-expanded=move || safety_open.get().to_string()
+                    aria-controls="safety"
+                    data-testid="safety-toggle"
+                    on:click=move |_| safety_open.update(|o| *o = !*o)
+                >
+                    "Safety"
+                </button>
+            </div>
+        </header>
+        <Notices />
+        <SafetyPanel open=safety_open />
+        <main id="main">
+            {move || match st.view.get() {
+                ViewId::Circuit => view! { <CircuitView /> }.into_any(),
+            }}
+        </main>
+        <footer class="foot">
+            <p>
+                "Results are estimates for design and teaching. ISO 4413, local codes and licensed \
+                 practice come first. "
+                <button type="button" class="link-button" on:click=move |_| safety_open.set(true)>
+                    "Read the safety notes"
+                </button>
+            </p>
+        </footer>
+    }
+}
+
+/// Starts the app (called by the binary).
+pub fn start() {
+    console_error_panic_hook::set_once();
+    leptos::mount::mount_to_body(App);
+}

@@ -1,0 +1,119 @@
+//! The circuit view: inputs by group, the staircase and power charts,
+//! results, and saved designs; plus the one-page printed sheet.
+
+use kneepoint_engine::fields::{Group, FIELDS};
+use kneepoint_engine::units::unit;
+use leptos::prelude::*;
+
+use crate::components::charts::{
+    PowerChart, PowerLegend, Readout, StaircaseChart, StaircaseLegend,
+};
+use crate::components::field::FieldGroup;
+use crate::components::presets::Presets;
+use crate::components::results::Results;
+use crate::components::safety::SafetyNotes;
+use crate::model::value_text;
+use crate::state::AppState;
+
+/// Width of the chart column now (px), for the chart drawings.
+fn measure(node: &NodeRef<leptos::html::Div>) -> Option<f64> {
+    let el = node.get_untracked()?;
+    let w = f64::from(el.client_width());
+    (w > 0.0).then_some(w)
+}
+
+/// Every input with its value, for the printed sheet only.
+#[component]
+fn PrintedInputs() -> impl IntoView {
+    let st = expect_context::<AppState>();
+    view! {
+        <table class="print-only inputs-table">
+            <caption>"Inputs"</caption>
+            <tbody>
+                {move || {
+                    let u = st.units.get();
+                    let name = st.rest.with(|d| d.name.clone());
+                    let mut rows = vec![
+                        view! {
+                            <tr>
+                                <th scope="row">"Design"</th>
+                                <td>{name}</td>
+                            </tr>
+                        }
+                            .into_any(),
+                    ];
+                    rows.extend(
+                        FIELDS
+                            .iter()
+                            .zip(st.values)
+                            .map(|(s, v)| {
+                                view! {
+                                    <tr>
+                                        <th scope="row">{s.label}</th>
+                                        <td>
+                                            {format!(
+                                                "{} {}",
+                                                value_text(s, u, v.get()),
+                                                unit(s.quantity, u).symbol,
+                                            )}
+                                        </td>
+                                    </tr>
+                                }
+                                    .into_any()
+                            }),
+                    );
+                    rows
+                }}
+            </tbody>
+        </table>
+    }
+}
+
+/// Inputs, charts and results for one hi-lo circuit.
+#[component]
+pub fn CircuitView() -> impl IntoView {
+    let charts_box = NodeRef::<leptos::html::Div>::new();
+    let width = RwSignal::new(640.0);
+    let remeasure = move || {
+        if let Some(w) = measure(&charts_box) {
+            if (w - width.get_untracked()).abs() >= 1.0 {
+                width.set(w);
+            }
+        }
+    };
+    request_animation_frame(remeasure);
+    let _ = window_event_listener(leptos::ev::resize, move |_| remeasure());
+    view! {
+        <div class="circuit">
+            <section class="charts panel" aria-labelledby="charts-h">
+                <h2 id="charts-h" class="sr-only">"Charts"</h2>
+                <div node_ref=charts_box class="chart-box">
+                    <figure class="chart" data-testid="staircase">
+                        <figcaption>"Pressure-flow staircase"</figcaption>
+                        <StaircaseChart width=width />
+                        <StaircaseLegend />
+                    </figure>
+                    <Readout />
+                    <figure class="chart" data-testid="power">
+                        <figcaption>"Shaft power"</figcaption>
+                        <PowerChart width=width />
+                        <PowerLegend />
+                    </figure>
+                </div>
+            </section>
+            <section class="inputs panel" aria-labelledby="inputs-h">
+                <h2 id="inputs-h">"Inputs"</h2>
+                <FieldGroup group=Group::Pumps />
+                <FieldGroup group=Group::Valves />
+                <FieldGroup group=Group::Cylinder />
+            </section>
+            <PrintedInputs />
+            <Results />
+            <Presets />
+            <section class="print-only print-safety">
+                <h2>"Safety"</h2>
+                <SafetyNotes />
+            </section>
+        </div>
+    }
+}
