@@ -24,11 +24,13 @@
 //! energy balance closes to rounding. Deterministic: the panel counts depend
 //! only on the input.
 
+use std::cell::Cell;
+
 use crate::circuit::{Circuit, PumpPoint, Regime};
 use crate::cycle::results::{CycleError, HeatBySource, Sample, SegmentResult};
 use crate::cycle::spec::{Hold, PressingForce, Segment};
 use crate::lines::{RE_LAMINAR, RE_TURBULENT};
-use crate::motion::{driving_area, required_pressure, Direction};
+use crate::motion::{driving_area, increasing_root, required_pressure, Direction};
 
 /// Options of the integration.
 #[derive(Clone, Copy, Debug, PartialEq)]
@@ -200,7 +202,7 @@ struct Run<'a> {
     p_ext_max: f64,
     p2t: f64,
     panels: u32,
-    evals: u32,
+    evals: Cell<u32>,
 }
 
 /// Runs the profile on the circuit.
@@ -239,7 +241,7 @@ pub(crate) fn run(
         p_ext_max: 0.0,
         p2t: 0.0,
         panels: 0,
-        evals: 0,
+        evals: Cell::new(0),
     };
     let qth_s = c.small_theoretical_flow();
     r.p_stall = r.flow_pressure(STALL_FLOW_FRACTION * qth_s);
@@ -261,7 +263,7 @@ pub(crate) fn run(
         stored_end_j: r.stored,
         p2t: r.p2t,
         panels: r.panels,
-        evaluations: r.evals,
+        evaluations: r.evals.get(),
     })
 }
 
@@ -273,33 +275,24 @@ fn sign(dir: Direction) -> f64 {
 }
 
 impl Run<'_> {
-    fn pump(&mut self, p: f64) -> PumpPoint {
-        self.evals += 1;
+    fn pump(&self, p: f64) -> PumpPoint {
+        self.evals.set(self.evals.get() + 1);
         self.c.pump_point_unchecked(p.clamp(0.0, self.p_rf))
     }
 
-    /// Highest pressure at which the power unit still delivers `q_min`
-    /// (bisection; Q_out does not rise with p).
-    fn flow_pressure(&mut self, q_min: f64) -> f64 {
-        if self.pump(0.0).out_flow_m3s < q_min {
+    /// Highest pressure at which the power unit still delivers `q_min`:
+    /// the root of q_min − Q_out(p), which does not fall with p.
+    fn flow_pressure(&self, q_min: f64) -> f64 {
+        let g = |p: f64| q_min - self.pump(p).out_flow_m3s;
+        let (g0, g1) = (g(0.0), g(self.p_rf));
+        if g0 >= 0.0 {
             return 0.0;
         }
-        let (mut lo, mut hi) = (0.0_f64, self.p_rf);
-        if self.pump(hi).out_flow_m3s >= q_min {
-            return hi;
+        if g1 < 0.0 {
+            return self.p_rf;
         }
-        for _ in 0..200 {
-            let mid = 0.5 * (lo + hi);
-            if mid <= lo || mid >= hi {
-                break;
-            }
-            if self.pump(mid).out_flow_m3s >= q_min {
-                lo = mid;
-            } else {
-                hi = mid;
-            }
-        }
-        lo
+        let tol = 1e-12 * self.c.small_theoretical_flow();
+        increasing_root((0.0, g0), (self.p_rf, g1), g, |_| tol)
     }
 
     /// Where a piece must be split in `dir`: the unloader start and end,
@@ -343,34 +336,31 @@ impl Run<'_> {
     }
 
     /// Force moved at steady system pressure `p`: (p − p_req(0, Q))·A.
-    fn force_at(&mut self, dir: Direction, p: f64) -> (f64, PumpPoint) {
+    fn force_at(&self, dir: Direction, p: f64) -> (f64, PumpPoint) {
         let pp = self.pump(p);
         let p0 = required_pressure(self.c, dir, 0.0, pp.out_flow_m3s);
         ((p - p0) * driving_area(self.c, dir), pp)
     }
 
-    /// Steady pressure for `force`, or the largest force when it stalls.
-    fn pressure_for(&mut self, dir: Direction, force: f64) -> Result<f64, f64> {
+    /// Steady pressure for `force`, or the largest force when it stalls:
+    /// the root of F(p) − F, which rises with p (module docs).
+    fn pressure_for(&self, dir: Direction, force: f64) -> Result<f64, f64> {
         let (f_max, _) = self.force_at(dir, self.p_stall);
         if force >= f_max {
             return Err(f_max);
         }
-        if self.force_at(dir, 0.0).0 >= force {
+        let g = |p: f64| self.force_at(dir, p).0 - force;
+        let g0 = g(0.0);
+        if g0 >= 0.0 {
             return Ok(0.0);
         }
-        let (mut lo, mut hi) = (0.0_f64, self.p_stall);
-        for _ in 0..200 {
-            let mid = 0.5 * (lo + hi);
-            if mid <= lo || mid >= hi {
-                break;
-            }
-            if self.force_at(dir, mid).0 < force {
-                lo = mid;
-            } else {
-                hi = mid;
-            }
-        }
-        Ok(hi)
+        let tol = 1e-13 * f_max.abs().max(1.0);
+        Ok(increasing_root(
+            (0.0, g0),
+            (self.p_stall, f_max - force),
+            g,
+            |_| tol,
+        ))
     }
 
     /// Pressurised volume at position `x` (m³).
@@ -680,7 +670,7 @@ impl Run<'_> {
     fn travel_node(&mut self, law: &Law, p: f64, dp_ds: f64, lo: f64, hi: f64) -> Node {
         let dir = law.dir;
         let (f, pp) = self.force_at(dir, p);
-        let fp = self.force_slope(dir, p, lo, hi);
+        let fp = self.force_slope(dir, p, f, lo, hi);
         let df = law.f_b - law.f_a;
         let len = law.d_b - law.d_a;
         let d = law.d_a + len * (f - law.f_a) / df;
@@ -708,18 +698,18 @@ impl Run<'_> {
     }
 
     /// dF/dp by differences kept inside [lo, hi] (one regime).
-    fn force_slope(&mut self, dir: Direction, p: f64, lo: f64, hi: f64) -> f64 {
+    fn force_slope(&self, dir: Direction, p: f64, f_p: f64, lo: f64, hi: f64) -> f64 {
         let h = (1e-6 * self.p_rf).min((hi - lo) / 4.0);
         if h <= 0.0 {
             return driving_area(self.c, dir);
         }
-        let mut f = |q: f64| self.force_at(dir, q).0;
+        let f = |q: f64| self.force_at(dir, q).0;
         if p - h >= lo && p + h <= hi {
             (f(p + h) - f(p - h)) / (2.0 * h)
         } else if p - h < lo {
-            (-3.0 * f(p) + 4.0 * f(p + h) - f(p + 2.0 * h)) / (2.0 * h)
+            (-3.0 * f_p + 4.0 * f(p + h) - f(p + 2.0 * h)) / (2.0 * h)
         } else {
-            (3.0 * f(p) - 4.0 * f(p - h) + f(p - 2.0 * h)) / (2.0 * h)
+            (3.0 * f_p - 4.0 * f(p - h) + f(p - 2.0 * h)) / (2.0 * h)
         }
     }
 
