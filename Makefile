@@ -45,9 +45,11 @@ app: build
 test: lint reference test-native wasm-engine app
 	@echo "test: all passed"
 
-bench:
+bench: reference
 	@echo "bench: criterion, full steady-state evaluation"
 	@$(CARGO) bench -p kneepoint-engine --bench evaluate -- --noplot
+	@echo "bench: criterion, full duty cycle (ratio against the SciPy reference)"
+	@$(CARGO) bench -p kneepoint-engine --bench cycle -- --noplot
 
 ## Browser tests (playwright-core on Debian chromium) against dist/.
 e2e: build setup-browser
