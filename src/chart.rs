@@ -53,6 +53,11 @@ impl Frame {
             bottom: height - 42.0,
         }
     }
+    /// A chart too narrow for full labels: markers carry numbers and the
+    /// key below the chart says what they are.
+    pub fn compact(&self) -> bool {
+        self.width < 560.0
+    }
     /// True when (x, y) lies in the plot area.
     pub fn contains(&self, x: f64, y: f64) -> bool {
         (self.left - 0.5..=self.right + 0.5).contains(&x)
@@ -149,8 +154,11 @@ pub struct Mark {
     pub pressure_pa: f64,
     /// The value marked (SI of the chart's quantity: flow or power).
     pub value_si: f64,
-    /// Label text, with units.
+    /// Label drawn beside the marker: the full text, or on a compact
+    /// chart its number in the chart's key.
     pub label: String,
+    /// The full label, with units (the chart's key lists it).
+    pub full: String,
     /// Label baseline point.
     pub lx: f64,
     /// Label baseline point.
@@ -215,9 +223,9 @@ pub struct PowerChart {
     pub motor: Option<(f64, Mark)>,
     /// Low and high corners.
     pub corners: Vec<Mark>,
-    /// The equal-corner unloading pressure: x pixel and label, when it lies
-    /// on the chart.
-    pub equal_corner: Option<(f64, String)>,
+    /// The equal-corner unloading pressure, when it lies on the chart: its
+    /// line at `x`, its label at the top of the plot.
+    pub equal_corner: Option<Mark>,
 }
 
 /// What the motor line shows.
@@ -455,7 +463,10 @@ fn place_labels(marks: &mut [Mark], f: &Frame, taken: &mut Vec<Rect>) {
                 t.lx = lx;
                 t.ly = my + dy;
                 t.anchor = anchor;
-                let b = label_box(&t);
+                // A little air around each label, so "5" and "7" side by
+                // side do not read as "57".
+                let lb = label_box(&t);
+                let b = Rect(lb.0 - 3.0, lb.1, lb.2 + 3.0, lb.3);
                 let inside = b.0 >= f.left + 2.0
                     && b.2 <= f.right - 2.0
                     && b.1 >= f.top + 2.0
@@ -509,6 +520,7 @@ fn mark(kind: &'static str, x: &Scale, y: &Scale, p: f64, v: f64, label: String)
         y: y.map(v),
         pressure_pa: p,
         value_si: v,
+        full: label.clone(),
         label,
         lx: 0.0,
         ly: 0.0,
@@ -584,6 +596,11 @@ pub fn staircase(report: &Report, units: UnitSystem, width: f64) -> Staircase {
     let mut taken = band_label_boxes(&bands, &f);
     for m in knees.iter().chain(points.iter()) {
         taken.push(Rect(m.x - 5.0, m.y - 5.0, m.x + 5.0, m.y + 5.0));
+    }
+    if f.compact() {
+        for (i, m) in knees.iter_mut().chain(points.iter_mut()).enumerate() {
+            m.label = (i + 1).to_string();
+        }
     }
     place_labels(&mut knees, &f, &mut taken);
     place_labels(&mut points, &f, &mut taken);
@@ -669,6 +686,7 @@ pub fn power(
                 lx: f.left + 6.0,
                 ly: (yy - 5.0).max(f.top + LINE_H),
                 anchor: Anchor::Start,
+                full: label.clone(),
                 label,
             };
             taken.push(label_box(&m));
@@ -677,14 +695,38 @@ pub fn power(
             Some((yy, m))
         }
     };
-    place_labels(&mut corners, &f, &mut taken);
+    // The equal-corner line's label sits at the top of the plot, clear of
+    // the corners' labels.
     let pe = c.equal_corner_unloading_pa;
     let equal_corner = (pe > 0.0 && pe < x.d1).then(|| {
-        (
-            x.map(pe),
-            format!("Equal corners at {}", format(Quantity::Pressure, units, pe)),
-        )
+        let xx = x.map(pe);
+        let text = format!("Equal corners {}", format(Quantity::Pressure, units, pe));
+        let w = text_width(&text);
+        let anchor = if xx + 4.0 + w <= f.right {
+            Anchor::Start
+        } else {
+            Anchor::End
+        };
+        let m = Mark {
+            kind: "equal_corner",
+            x: xx,
+            y: f.top,
+            pressure_pa: pe,
+            value_si: pe,
+            full: text.clone(),
+            label: text,
+            lx: if anchor == Anchor::Start {
+                xx + 4.0
+            } else {
+                xx - 4.0
+            },
+            ly: f.top + LINE_H,
+            anchor,
+        };
+        taken.push(label_box(&m));
+        m
     });
+    place_labels(&mut corners, &f, &mut taken);
     PowerChart {
         frame: f,
         x,
@@ -818,11 +860,9 @@ mod tests {
                         );
                         boxes.push(b);
                     }
-                    if width >= 480.0 {
-                        for (i, a) in boxes.iter().enumerate() {
-                            for b in &boxes[i + 1..] {
-                                assert!(!a.overlaps(b), "{width} {units:?}: {a:?} {b:?}");
-                            }
+                    for (i, a) in boxes.iter().enumerate() {
+                        for b in &boxes[i + 1..] {
+                            assert!(!a.overlaps(b), "{width} {units:?}: {a:?} {b:?}");
                         }
                     }
                 }

@@ -203,8 +203,9 @@ pub fn decode(fragment: &str) -> Result<Shared, LinkError> {
 }
 
 fn to_value(d: &Design) -> Value {
-    // A design is plain data with string keys: serialising cannot fail.
-    serde_json::to_value(d).unwrap_or(Value::Null)
+    // Through the design file's own text: one serialiser in the app, and the
+    // link patches exactly what a design file holds.
+    serde_json::from_str(&io::design_to_json(d)).unwrap_or(Value::Null)
 }
 
 /// Leaf equality that tells 0.0 from −0.0, so a round trip is exact.

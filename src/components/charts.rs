@@ -14,16 +14,16 @@ use crate::summary::motor_line;
 #[derive(Clone, Copy)]
 pub struct Cursor(pub RwSignal<Option<f64>>);
 
-fn view_box(f: &Frame) -> String {
+pub(crate) fn view_box(f: &Frame) -> String {
     format!("0 0 {} {}", f.width, f.height)
 }
 
-fn num(v: f64) -> String {
+pub(crate) fn num(v: f64) -> String {
     crate::fmt::fixed(v, 1)
 }
 
 /// Grid lines, ticks and titles of a chart.
-fn axes(
+pub(crate) fn axes(
     f: Frame,
     x_ticks: Vec<Tick>,
     y_ticks: Vec<Tick>,
@@ -141,7 +141,11 @@ fn marker(m: Mark, class: &'static str, shape: &'static str) -> impl IntoView {
 
 /// Pointer and key handling shared by both charts: the pointer's pressure
 /// goes to the shared cursor.
-fn pointer_pressure(ev: &web_sys::PointerEvent, f: &Frame, x: &Scale) -> Option<f64> {
+pub(crate) fn pointer_pressure(
+    ev: &web_sys::PointerEvent,
+    f: &Frame,
+    x: &Scale,
+) -> Option<f64> {
     let el: web_sys::Element = ev.current_target()?.dyn_into().ok()?;
     let r = el.get_bounding_client_rect();
     if r.width() <= 0.0 {
@@ -152,7 +156,7 @@ fn pointer_pressure(ev: &web_sys::PointerEvent, f: &Frame, x: &Scale) -> Option<
     Some(x.invert(px).max(0.0))
 }
 
-fn key_step(key: &str, now: Option<f64>, x: &Scale) -> Option<Option<f64>> {
+pub(crate) fn key_step(key: &str, now: Option<f64>, x: &Scale) -> Option<Option<f64>> {
     let step = (x.d1 - x.d0) / 50.0;
     let p = now.unwrap_or(0.0);
     Some(Some(match key {
@@ -283,7 +287,23 @@ pub fn StaircaseChart(
             </g>
         }
         .into_any();
-        chart_svg(f, g.x, cursor, label, "staircase-svg", body).into_any()
+        let compact = f.compact();
+        let key = g
+            .knees
+            .iter()
+            .chain(&g.points)
+            .map(|m| {
+                let n = m.label.clone();
+                view! { <li data-kind=m.kind>{compact.then(|| format!("{n} "))} {m.full.clone()}</li> }
+            })
+            .collect_view();
+        view! {
+            {chart_svg(f, g.x, cursor, label, "staircase-svg", body)}
+            <ol class="chart-key" class:sr-only=!compact aria-label="Marked points" data-testid="staircase-key">
+                {key}
+            </ol>
+        }
+        .into_any()
     }
 }
 
@@ -321,12 +341,12 @@ pub fn PowerChart(
                 </g>
             }
         });
-        let equal = g.equal_corner.clone().map(|(xx, label)| {
+        let equal = g.equal_corner.clone().map(|m| {
             view! {
-                <g class="equal-corner">
-                    <line class="equal-line" x1=num(xx) x2=num(xx) y1=num(f.top) y2=num(f.bottom) />
-                    <text class="mark-label small" x=num(xx + 4.0) y=num(f.bottom - 6.0)>
-                        {label}
+                <g class="equal-corner" data-pressure-pa=m.pressure_pa.to_string()>
+                    <line class="equal-line" x1=num(m.x) x2=num(m.x) y1=num(f.top) y2=num(f.bottom) />
+                    <text class="mark-label small" x=num(m.lx) y=num(m.ly) text-anchor=m.anchor.svg()>
+                        {m.label}
                     </text>
                 </g>
             }
