@@ -42,7 +42,7 @@ wasm-engine: setup-web
 app: build
 
 ## Every test: formatting, lints, native tests, wasm build, app, browser tests.
-test: lint reference test-native wasm-engine app
+test: lint reference test-native wasm-engine app e2e
 	@echo "test: all passed"
 
 bench: reference
