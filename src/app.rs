@@ -13,6 +13,7 @@ use crate::components::safety::SafetyPanel;
 use crate::state::{AppState, NoticeKind, ViewId};
 use crate::url_codec;
 use crate::views::circuit::CircuitView;
+use crate::views::cycle::CycleView;
 
 /// What the page opens with.
 struct Boot {
@@ -275,6 +276,7 @@ pub fn App() -> impl IntoView {
         <main id="main">
             {move || match st.view.get() {
                 ViewId::Circuit => view! { <CircuitView /> }.into_any(),
+                ViewId::Cycle => view! { <CycleView /> }.into_any(),
             }}
         </main>
         <footer class="foot">

@@ -2,7 +2,7 @@
 //!
 //! Pure modules (no web crates, unit-tested natively): [`fmt`], [`ticks`],
 //! [`chart`], [`url_codec`], [`base64url`], [`motor`], [`model`],
-//! [`summary`], [`presets`]. Reactive state: [`state`]. Browser glue:
+//! [`summary`], [`presets`], [`timeline_geom`]. Reactive state: [`state`]. Browser glue:
 //! [`browser`]. Components and views: [`components`], [`views`], [`app`].
 #![forbid(unsafe_code)]
 
@@ -18,5 +18,6 @@ pub mod presets;
 pub mod state;
 pub mod summary;
 pub mod ticks;
+pub mod timeline_geom;
 pub mod url_codec;
 pub mod views;

@@ -5,8 +5,9 @@
 //! Every view (the circuit view now; a duty-cycle and an at-the-machine
 //! view later) reads the same [`AppState`] from context.
 
+use kneepoint_engine::cycle::{evaluate_cycle, CycleError, CycleReport};
 use kneepoint_engine::fields::{self, FIELDS};
-use kneepoint_engine::{evaluate, Design, Report, UnitSystem, ValidationErrors};
+use kneepoint_engine::{evaluate, Circuit, Design, Report, UnitSystem, ValidationErrors};
 use leptos::prelude::*;
 
 /// The views of the app, in the order of the view switcher.
@@ -14,21 +15,25 @@ use leptos::prelude::*;
 pub enum ViewId {
     /// Pumps, valves, cylinder: staircase, power curve and results.
     Circuit,
+    /// The load profile over time: timeline, motor, heat, targets.
+    Cycle,
 }
 
 impl ViewId {
     /// Every view, in switcher order.
-    pub const ALL: &'static [ViewId] = &[ViewId::Circuit];
+    pub const ALL: &'static [ViewId] = &[ViewId::Circuit, ViewId::Cycle];
     /// Name in links (`view=`).
     pub fn code(self) -> &'static str {
         match self {
             ViewId::Circuit => "circuit",
+            ViewId::Cycle => "cycle",
         }
     }
     /// Label in the switcher.
     pub fn label(self) -> &'static str {
         match self {
             ViewId::Circuit => "Circuit",
+            ViewId::Cycle => "Duty cycle",
         }
     }
     /// The view named `code` in a link.
@@ -70,6 +75,9 @@ pub struct Good {
     pub report: Report,
 }
 
+/// The duty-cycle evaluation of the last good design.
+pub type CycleOutcome = Result<CycleReport, CycleError>;
+
 /// Signals and memos shared by every view (`Copy`, from context).
 #[derive(Clone, Copy)]
 pub struct AppState {
@@ -90,6 +98,10 @@ pub struct AppState {
     pub outcome: Memo<Outcome>,
     /// The last good design and report, kept while the design is invalid.
     pub shown: Memo<Option<Good>>,
+    /// The duty cycle of the last good design (`None` before any).
+    pub cycle: Memo<Option<CycleOutcome>>,
+    /// The last cycle report that ran, kept while the cycle cannot run.
+    pub cycle_shown: Memo<Option<CycleReport>>,
     /// The open view.
     pub view: RwSignal<ViewId>,
     /// Messages at the top of the page.
@@ -122,6 +134,20 @@ impl AppState {
             }),
             Err(_) => prev.cloned().flatten(),
         });
+        // Lazy: runs only while a view reads it.
+        let cycle = Memo::new(move |_| {
+            shown.with(|g| {
+                g.as_ref()
+                    .and_then(|g| Circuit::new(&g.design).ok())
+                    .map(|c| evaluate_cycle(&c))
+            })
+        });
+        let cycle_shown = Memo::new(
+            move |prev: Option<&Option<CycleReport>>| match cycle.get() {
+                Some(Ok(r)) => Some(r),
+                _ => prev.cloned().flatten(),
+            },
+        );
         AppState {
             units: RwSignal::new(units),
             values,
@@ -130,6 +156,8 @@ impl AppState {
             design,
             outcome,
             shown,
+            cycle,
+            cycle_shown,
             view: RwSignal::new(ViewId::Circuit),
             notices: RwSignal::new(Vec::new()),
         }

@@ -2,3 +2,4 @@
 //! switcher ([`crate::state::ViewId`]); all share [`crate::state::AppState`].
 
 pub mod circuit;
+pub mod cycle;
