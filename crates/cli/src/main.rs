@@ -1,11 +1,12 @@
-//! `kneepoint`: steady-state reports of hi-lo circuit designs from the
+//! `kneepoint`: steady-state and duty-cycle reports of hi-lo circuit designs from the
 //! command line, and the demo designs as files.
 //!
 //! ```text
-//! kneepoint report FILE [--units metric|us] [--format text|json|csv]
+//! kneepoint report FILE [--units metric|us] [--format text|json|csv] [--series]
 //! kneepoint example [NAME]
 //! ```
-//! Exit status: 0 done; 1 the design is invalid (one line per field);
+//! Exit status: 0 done; 1 the design is invalid (one line per field), or
+//! its duty cycle cannot run when `--series` asks for it;
 //! 2 usage error, unreadable or malformed file, unknown example.
 
 mod output;
@@ -13,15 +14,18 @@ mod output;
 use std::io::Write;
 use std::process::ExitCode;
 
+use kneepoint_engine::cycle::evaluate_cycle;
 use kneepoint_engine::io::{design_to_json, parse_design};
-use kneepoint_engine::{evaluate, UnitSystem, EXAMPLES};
+use kneepoint_engine::{evaluate, Circuit, UnitSystem, EXAMPLES};
 
 const USAGE: &str = "\
 Usage:
-  kneepoint report FILE [--units metric|us] [--format text|json|csv]
-      Operating points, corner powers, settings check and warnings of a
-      design file. json is the engine's full report in SI units; csv is
-      the pressure-flow-power curves with units in the header.
+  kneepoint report FILE [--units metric|us] [--format text|json|csv] [--series]
+      Operating points, corner powers, settings check, warnings and the
+      duty cycle (per segment, totals, motor, heat, targets, warnings) of a
+      design file. json is the engine's full report in SI units, the cycle
+      under \"cycle\"; csv is the pressure-flow-power curves with units in
+      the header, or with --series the cycle's time series.
   kneepoint example [NAME]
       Writes a demo design file to standard output; without NAME, lists them.
   kneepoint help
@@ -43,6 +47,8 @@ enum Command {
         file: String,
         units: UnitSystem,
         format: Format,
+        /// The cycle's time series instead of the curves (csv only).
+        series: bool,
     },
     Example(Option<String>),
     Help,
@@ -96,7 +102,12 @@ fn parse_args(args: &[String]) -> Result<Command, Failure> {
             let mut file = None;
             let mut units = UnitSystem::Metric;
             let mut format = Format::Text;
+            let mut series = false;
             while let Some(arg) = it.next() {
+                if arg == "--series" {
+                    series = true;
+                    continue;
+                }
                 if let Some(v) = option_value(arg, "--units", &mut it)? {
                     units = UnitSystem::parse(v).ok_or_else(|| {
                         usage_error(format!("Unknown units '{v}': use metric or us."))
@@ -121,10 +132,14 @@ fn parse_args(args: &[String]) -> Result<Command, Failure> {
                 }
             }
             let file = file.ok_or_else(|| usage_error("report needs a design FILE."))?;
+            if series && format != Format::Csv {
+                return Err(usage_error("--series goes with --format csv."));
+            }
             Ok(Command::Report {
                 file,
                 units,
                 format,
+                series,
             })
         }
         other => Err(usage_error(format!("Unknown command '{other}'."))),
@@ -155,7 +170,12 @@ fn example(name: Option<&str>) -> Result<String, Failure> {
     }
 }
 
-fn report(file: &str, units: UnitSystem, format: Format) -> Result<String, Failure> {
+fn report(
+    file: &str,
+    units: UnitSystem,
+    format: Format,
+    series: bool,
+) -> Result<String, Failure> {
     let text = std::fs::read_to_string(file).map_err(|e| Failure {
         code: 2,
         message: format!("{file}: cannot read: {e}"),
@@ -173,10 +193,29 @@ fn report(file: &str, units: UnitSystem, format: Format) -> Result<String, Failu
             .collect::<Vec<_>>()
             .join("\n"),
     })?;
-    Ok(match format {
-        Format::Text => output::text(&design, &report, units),
-        Format::Json => output::json(&report),
-        Format::Csv => output::csv(&report, units),
+    // `evaluate` succeeded, so the design is valid and the circuit builds.
+    let cycle = Circuit::new(&design)
+        .map_err(|e| Failure {
+            code: 1,
+            message: format!("{file}: {e}"),
+        })
+        .map(|c| evaluate_cycle(&c))?;
+    Ok(match (format, series) {
+        (Format::Text, _) => output::text(&design, &report, &cycle, units),
+        (Format::Json, _) => output::json(&report, &cycle),
+        (Format::Csv, false) => output::csv(&report, units),
+        (Format::Csv, true) => match &cycle {
+            Ok(c) => output::series_csv(c, units),
+            Err(e) => {
+                return Err(Failure {
+                    code: 1,
+                    message: format!(
+                        "{file}: the duty cycle cannot run: {}",
+                        e.message(units)
+                    ),
+                })
+            }
+        },
     })
 }
 
@@ -188,7 +227,8 @@ fn run(args: &[String]) -> Result<String, Failure> {
             file,
             units,
             format,
-        } => report(&file, units, format),
+            series,
+        } => report(&file, units, format, series),
     }
 }
 
@@ -226,7 +266,8 @@ mod tests {
                 Some(Command::Report {
                     file: "d.json".into(),
                     units: UnitSystem::Us,
-                    format: Format::Csv
+                    format: Format::Csv,
+                    series: false,
                 }),
                 "{line}"
             );
@@ -244,6 +285,8 @@ mod tests {
             "report a --format xml",
             "report a --units",
             "report a --colour",
+            "report a --series",
+            "report a --series --format json",
             "example a b",
         ] {
             let e = parse_args(&args(line)).err().map(|f| f.code);

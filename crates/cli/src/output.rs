@@ -1,6 +1,8 @@
 //! The three output formats of `kneepoint report`.
 
+use kneepoint_engine::cycle::{CycleError, CycleReport, RequirementKind};
 use kneepoint_engine::figures::Governing;
+use kneepoint_engine::motor::MotorSeries;
 use kneepoint_engine::report::Report;
 use kneepoint_engine::units::{format, to_display, unit, Quantity, UnitSystem};
 use kneepoint_engine::Design;
@@ -52,8 +54,8 @@ fn ok(b: bool) -> &'static str {
     }
 }
 
-/// The human-readable report.
-pub fn text(d: &Design, r: &Report, u: UnitSystem) -> String {
+/// The human-readable report, with the duty cycle.
+pub fn text(d: &Design, r: &Report, cycle: &CycleOutcome, u: UnitSystem) -> String {
     use Quantity::*;
     let mut out = String::new();
     let name = if d.name.is_empty() {
@@ -181,9 +183,8 @@ pub fn text(d: &Design, r: &Report, u: UnitSystem) -> String {
         out.push_str(&format!("  - {} [{}]\n", w.message(u), w.field));
     }
 
-    // DUTY-CYCLE REPORT: the duty-cycle section (cycle time, peak and RMS
-    // shaft power, motor choice, heat) goes here, from
-    // `kneepoint_engine::cycle`, when the CLI is wired to it.
+    // DUTY-CYCLE REPORT
+    out.push_str(&cycle_text(cycle, u));
 
     out.push('\n');
     out.push_str(CAUTION);
@@ -191,9 +192,21 @@ pub fn text(d: &Design, r: &Report, u: UnitSystem) -> String {
     out
 }
 
-/// The engine's full report as JSON (SI units; field names carry them).
-pub fn json(r: &Report) -> String {
-    serde_json::to_string_pretty(r).unwrap_or_default() + "\n"
+/// The duty cycle of a design, or why it cannot run.
+pub type CycleOutcome = Result<CycleReport, CycleError>;
+
+/// The engine's full report as JSON (SI units; field names carry them),
+/// with the duty cycle under `cycle` (or `cycle_error` when it cannot run).
+pub fn json(r: &Report, cycle: &CycleOutcome) -> String {
+    let mut v = serde_json::to_value(r).unwrap_or_default();
+    if let Some(m) = v.as_object_mut() {
+        let (key, c) = match cycle {
+            Ok(c) => ("cycle", serde_json::to_value(c)),
+            Err(e) => ("cycle_error", serde_json::to_value(e)),
+        };
+        m.insert(key.into(), c.unwrap_or_default());
+    }
+    serde_json::to_string_pretty(&v).unwrap_or_default() + "\n"
 }
 
 /// A number for CSV: six decimals at most, no trailing zeros.
@@ -227,6 +240,274 @@ pub fn csv(r: &Report, u: UnitSystem) -> String {
             num(to_display(Power, u, p.shaft_power_w)),
             num(to_display(Power, u, p.single_pump_w)),
             p.regime.label()
+        ));
+    }
+    out
+}
+
+/// The duty-cycle section of the text report.
+fn cycle_text(cycle: &CycleOutcome, u: UnitSystem) -> String {
+    use Quantity::*;
+    let mut out = String::from("\nDuty cycle\n");
+    let c = match cycle {
+        Ok(c) => c,
+        Err(e) => {
+            out.push_str(&format!("  cannot run: {}\n", e.message(u)));
+            return out;
+        }
+    };
+    out.push_str(if c.profile_derived {
+        "  profile derived from the loads (the design has none of its own)\n"
+    } else {
+        "  profile of the design\n"
+    });
+    let mut rows = vec![[
+        "#",
+        "segment",
+        "time",
+        "travel",
+        "mean speed",
+        "max pressure",
+        "peak power",
+        "RMS power",
+        "energy in",
+        "heat",
+    ]
+    .map(String::from)
+    .to_vec()];
+    for s in &c.segments {
+        rows.push(vec![
+            (s.index + 1).to_string(),
+            s.label.into(),
+            format!("{:.2} s", s.time_s),
+            fmt(Length, u, s.distance_m),
+            fmt(Velocity, u, s.mean_speed_ms),
+            fmt(Pressure, u, s.pressure_max_pa),
+            fmt(Power, u, s.peak_power_w),
+            fmt(Power, u, s.rms_power_w),
+            fmt(Energy, u, s.energy_in_j),
+            fmt(Energy, u, s.heat.total()),
+        ]);
+    }
+    out.push_str(&table(&rows));
+
+    let t = &c.totals;
+    out.push_str("\nCycle totals\n");
+    out.push_str(&table(&[
+        vec![
+            "cycle time".into(),
+            format!(
+                "{:.2} s ({:.0} cycles per hour)",
+                t.cycle_time_s, t.cycles_per_hour
+            ),
+        ],
+        vec![
+            "shaft power".into(),
+            format!(
+                "peak {}, RMS {}, mean {}",
+                fmt(Power, u, t.peak_power_w),
+                fmt(Power, u, t.rms_power_w),
+                fmt(Power, u, t.mean_power_w)
+            ),
+        ],
+        vec!["peak shaft torque".into(), fmt(Torque, u, t.peak_torque_nm)],
+        vec![
+            "highest pressure".into(),
+            fmt(Pressure, u, t.pressure_max_pa),
+        ],
+        vec![
+            "energy per cycle".into(),
+            format!(
+                "{} at the shaft, {} electrical, {} work on the load",
+                fmt(Energy, u, t.energy_in_j),
+                fmt(Energy, u, t.electrical_energy_j),
+                fmt(Energy, u, t.work_out_j)
+            ),
+        ],
+    ]));
+
+    let m = &c.motor;
+    let pct = |f: Option<f64>| f.map_or("-".into(), |f| format!("{:.0} %", 100.0 * f));
+    out.push_str(&format!(
+        "\nMotor ({} series; RMS margin {:.0} %, peak allowance {:.2} × rating)\n",
+        match m.series {
+            MotorSeries::Iec => "IEC kW",
+            MotorSeries::Nema => "NEMA hp",
+        },
+        100.0 * m.margin_fraction,
+        m.peak_allowance
+    ));
+    out.push_str(&table(&[
+        vec![
+            "smallest that passes".into(),
+            match &m.recommended {
+                Some(r) => format!(
+                    "{} (needs at least {})",
+                    r.label,
+                    fmt(Power, u, m.minimum_w)
+                ),
+                None => {
+                    format!("none in the series (needs {})", fmt(Power, u, m.minimum_w))
+                }
+            },
+        ],
+        vec![
+            "rating checked".into(),
+            m.checked_rating_w.map_or("-".into(), |w| {
+                format!(
+                    "{} ({})",
+                    fmt(Power, u, w),
+                    if m.checked_is_chosen {
+                        "chosen"
+                    } else {
+                        "smallest that passes"
+                    }
+                )
+            }),
+        ],
+        vec!["loading at peak".into(), pct(m.peak_loading)],
+        vec!["loading on RMS".into(), pct(m.rms_loading)],
+        vec![
+            "electrical input".into(),
+            format!(
+                "mean {}, peak {} at {:.0} % efficiency",
+                fmt(Power, u, m.electrical_mean_w),
+                fmt(Power, u, m.electrical_peak_w),
+                100.0 * m.motor_efficiency
+            ),
+        ],
+    ]));
+
+    let h = &c.heat;
+    let per = |j: f64| {
+        if t.cycle_time_s > 0.0 {
+            fmt(Power, u, j / t.cycle_time_s)
+        } else {
+            "-".into()
+        }
+    };
+    let est = |e: bool| if e { " (estimated)" } else { "" };
+    out.push_str("\nHeat\n");
+    out.push_str(&table(&[
+        vec![
+            "mean heat into the oil".into(),
+            fmt(Power, u, h.mean_heat_w),
+        ],
+        vec!["  relief valve".into(), per(t.heat.relief_j)],
+        vec!["  unloaded large pump".into(), per(t.heat.unloaded_j)],
+        vec![
+            "  valves, lines, released oil".into(),
+            per(t.heat.valves_lines_j),
+        ],
+        vec!["  pump friction and leakage".into(), per(t.heat.pumps_j)],
+        vec![
+            "tank".into(),
+            format!(
+                "{}{}, {} wetted{}, U {}",
+                fmt(Volume, u, h.oil_volume_m3),
+                est(h.oil_volume_estimated),
+                fmt(Area, u, h.wetted_area_m2),
+                est(h.wetted_area_estimated),
+                fmt(HeatTransfer, u, h.heat_transfer_w_m2k)
+            ),
+        ],
+        vec![
+            "steady oil temperature, no cooler".into(),
+            format!(
+                "{} ({} above ambient {}; allowed {})",
+                fmt(Temperature, u, h.steady_oil_c),
+                fmt(TemperatureRise, u, h.steady_rise_k),
+                fmt(Temperature, u, h.ambient_c),
+                fmt(Temperature, u, h.max_oil_c)
+            ),
+        ],
+        vec![
+            "time constant".into(),
+            format!(
+                "{:.0} s ({:.0} min)",
+                h.time_constant_s,
+                h.time_constant_s / 60.0
+            ),
+        ],
+        vec![
+            "cooler needed".into(),
+            if h.cooler_w > 0.0 {
+                fmt(Power, u, h.cooler_w)
+            } else {
+                "none".into()
+            },
+        ],
+    ]));
+
+    out.push_str("\nTargets\n");
+    if c.requirements.is_empty() {
+        out.push_str("  none set\n");
+    }
+    for q in &c.requirements {
+        let (name, qty, at_least) = match q.kind {
+            RequirementKind::ApproachSpeed => ("mean approach speed", Velocity, true),
+            RequirementKind::PressingSpeed => ("mean pressing speed", Velocity, true),
+            _ => ("cycle time", Time, false),
+        };
+        let got = q
+            .achieved
+            .map_or("no such segment".into(), |a| fmt(qty, u, a));
+        let margin = q
+            .margin
+            .map_or(String::new(), |m| format!(", margin {:+.0} %", 100.0 * m));
+        out.push_str(&format!(
+            "  {}: {name} {got}, needed {} {}{margin}\n",
+            if q.met { "MET" } else { "MISSED" },
+            if at_least { "at least" } else { "at most" },
+            fmt(qty, u, q.required),
+        ));
+        if let Some(f) = q.fix {
+            out.push_str(&format!("    {} [{}]\n", f.message(u), f.field()));
+        } else if !q.met {
+            out.push_str("    no single pump change up to 16 times its size meets it\n");
+        }
+    }
+
+    out.push_str("\nCycle warnings\n");
+    if c.warnings.is_empty() {
+        out.push_str("  none\n");
+    }
+    for w in &c.warnings {
+        let seg = w
+            .segment
+            .map_or(String::new(), |i| format!("segment {}: ", i + 1));
+        out.push_str(&format!("  - {seg}{} [{}]\n", w.message(u), w.field));
+    }
+    out
+}
+
+/// The cycle's time series as CSV, units in the header.
+pub fn series_csv(c: &CycleReport, u: UnitSystem) -> String {
+    use Quantity::*;
+    let sym = |q| unit(q, u).symbol;
+    let mut out = format!(
+        "time [s],position [{}],speed [{}],pressure [{}],cylinder pressure [{}],flow [{}],shaft power [{}],regime,segment\n",
+        sym(Length),
+        sym(Velocity),
+        sym(Pressure),
+        sym(Pressure),
+        sym(Flow),
+        sym(Power)
+    );
+    for s in &c.samples {
+        let seg = c.segments.get(s.segment).map_or("", |g| g.label);
+        out.push_str(&format!(
+            "{},{},{},{},{},{},{},{},{} {}\n",
+            num(s.t_s),
+            num(to_display(Length, u, s.x_m)),
+            num(to_display(Velocity, u, s.v_ms)),
+            num(to_display(Pressure, u, s.p_pa)),
+            num(to_display(Pressure, u, s.chamber_pa)),
+            num(to_display(Flow, u, s.q_m3s)),
+            num(to_display(Power, u, s.power_w)),
+            s.regime.label(),
+            s.segment + 1,
+            seg
         ));
     }
     out
