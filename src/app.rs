@@ -9,11 +9,13 @@ use leptos::prelude::*;
 
 use crate::browser::{self, SESSION_KEY};
 use crate::components::charts::Cursor;
+use crate::components::faults::FaultFlag;
 use crate::components::safety::SafetyPanel;
 use crate::state::{AppState, NoticeKind, ViewId};
 use crate::url_codec;
 use crate::views::circuit::CircuitView;
 use crate::views::cycle::CycleView;
+use crate::views::field::FieldView;
 
 /// What the page opens with.
 struct Boot {
@@ -272,10 +274,12 @@ pub fn App() -> impl IntoView {
             </div>
         </header>
         <Notices />
+        <FaultFlag />
         <SafetyPanel open=safety_open />
         <main id="main">
             {move || match st.view.get() {
                 ViewId::Circuit => view! { <CircuitView /> }.into_any(),
+                ViewId::Field => view! { <FieldView /> }.into_any(),
                 ViewId::Cycle => view! { <CycleView /> }.into_any(),
             }}
         </main>

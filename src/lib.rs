@@ -1,5 +1,6 @@
 //! Kneepoint in the browser: inputs, charts and results around the engine.
 //!
+//! Machine check, pure: [`field_form`], [`field_record`], [`diagram_geom`].
 //! Pure modules (no web crates, unit-tested natively): [`fmt`], [`ticks`],
 //! [`chart`], [`url_codec`], [`base64url`], [`motor`], [`model`],
 //! [`summary`], [`presets`], [`timeline_geom`]. Reactive state: [`state`]. Browser glue:
@@ -11,6 +12,9 @@ pub mod base64url;
 pub mod browser;
 pub mod chart;
 pub mod components;
+pub mod diagram_geom;
+pub mod field_form;
+pub mod field_record;
 pub mod fmt;
 pub mod model;
 pub mod motor;

@@ -15,17 +15,20 @@ use leptos::prelude::*;
 pub enum ViewId {
     /// Pumps, valves, cylinder: staircase, power curve and results.
     Circuit,
+    /// At the machine: readings, diagnosis, diagram, fault simulator.
+    Field,
     /// The load profile over time: timeline, motor, heat, targets.
     Cycle,
 }
 
 impl ViewId {
     /// Every view, in switcher order.
-    pub const ALL: &'static [ViewId] = &[ViewId::Circuit, ViewId::Cycle];
+    pub const ALL: &'static [ViewId] = &[ViewId::Circuit, ViewId::Cycle, ViewId::Field];
     /// Name in links (`view=`).
     pub fn code(self) -> &'static str {
         match self {
             ViewId::Circuit => "circuit",
+            ViewId::Field => "field",
             ViewId::Cycle => "cycle",
         }
     }
@@ -33,6 +36,7 @@ impl ViewId {
     pub fn label(self) -> &'static str {
         match self {
             ViewId::Circuit => "Circuit",
+            ViewId::Field => "Machine check",
             ViewId::Cycle => "Duty cycle",
         }
     }

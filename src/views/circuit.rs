@@ -8,6 +8,7 @@ use leptos::prelude::*;
 use crate::components::charts::{
     PowerChart, PowerLegend, Readout, StaircaseChart, StaircaseLegend,
 };
+use crate::components::diagram::CircuitDiagram;
 use crate::components::field::FieldGroup;
 use crate::components::presets::Presets;
 use crate::components::results::Results;
@@ -99,6 +100,8 @@ pub fn CircuitView() -> impl IntoView {
                         <PowerChart width=width />
                         <PowerLegend />
                     </figure>
+                    // The circuit at the pressure under the chart cursor.
+                    <CircuitDiagram />
                 </div>
             </section>
             <section class="inputs panel" aria-labelledby="inputs-h">

@@ -3,3 +3,4 @@
 
 pub mod circuit;
 pub mod cycle;
+pub mod field;
