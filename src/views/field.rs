@@ -154,7 +154,7 @@ fn Findings() -> impl IntoView {
                                     view! {
                                         <tr data-calc=r.id>
                                             <th scope="row">{r.label}</th>
-                                            <td class="value">{r.measured}</td>
+                                            <td class="calc-value">{r.measured}</td>
                                             <td>{r.expected}</td>
                                         </tr>
                                     }
