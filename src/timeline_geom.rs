@@ -562,6 +562,39 @@ mod tests {
     }
 
     #[test]
+    fn time_ticks_are_round_and_inside() {
+        for r in reports() {
+            for width in [320.0, 900.0] {
+                let m = motion(&r, UnitSystem::Metric, width);
+                let f = m.frame;
+                assert!(
+                    m.x_ticks.len() >= 3 && m.x_ticks.len() <= 9,
+                    "{:?}",
+                    m.x_ticks
+                );
+                assert_eq!(m.x_ticks[0].label, "0");
+                assert!((m.x_ticks[0].at - f.left).abs() < 1e-9);
+                let values: Vec<f64> = m
+                    .x_ticks
+                    .iter()
+                    .map(|t| t.label.parse().expect("number"))
+                    .collect();
+                let step = values[1] - values[0];
+                // Steps of 1, 2 or 5 × 10ⁿ s.
+                let mant = step / 10f64.powf(step.log10().floor());
+                assert!(
+                    [1.0, 2.0, 5.0].iter().any(|m| (mant - m).abs() < 1e-9),
+                    "{step}"
+                );
+                for t in &m.x_ticks {
+                    assert!(t.at >= f.left - 1e-9 && t.at <= f.right + 1e-9);
+                }
+                assert!(*values.last().expect("ticks") <= r.totals.cycle_time_s + 1e-9);
+            }
+        }
+    }
+
+    #[test]
     fn axis_titles_carry_units() {
         let r = &reports()[0];
         let m = motion(r, UnitSystem::Metric, 640.0);

@@ -424,7 +424,7 @@ fn force_table(ed: Editor, i: usize, n: usize) -> impl IntoView {
                         on_set=set_pos
                     />
                     <CycleNumber
-                        label="force"
+                        label="Force"
                         quantity=Quantity::Force
                         path=format!("cycle.segments[{i}].force.points[{j}].force_n")
                         value=force
@@ -527,10 +527,10 @@ fn pressing_inputs(ed: Editor, i: usize, shape: &'static str, n: usize) -> impl 
                     "Constant"
                 </option>
                 <option value="linear" selected=shape == "linear">
-                    "Straight line from … to … (spring-like)"
+                    "Straight line, start to end (spring-like)"
                 </option>
                 <option value="table" selected=shape == "table">
-                    "Table of position and force"
+                    "Table of points"
                 </option>
             </select>
         </div>
