@@ -186,12 +186,12 @@ fn Findings() -> impl IntoView {
                     });
                     view! {
                         <li class="finding" data-testid="finding" data-cause=cause>
-                            <h4>
+                            <h3>
                                 {f.title}
                                 <span class="score" title="How strongly the readings point here">
                                     {format!(" score {:.2}", f.score)}
                                 </span>
-                            </h4>
+                            </h3>
                             <meter min="0" max="1" value=f.score.to_string() aria-label="score"></meter>
                             <ul class="evidence">
                                 {f.evidence.iter().map(|e| view! { <li>{e.message(u)}</li> }).collect_view()}
