@@ -71,13 +71,14 @@ console.log(`slider step, input to DOM updated: p50 ${pct(dom, 50).toFixed(2)} m
 console.log(`slider step, DOM updated before the next animation frame: ${200 - missed} of 200`);
 console.log(`cold load to first chart: median ${pct(loads, 50).toFixed(0)} ms (5 fresh profiles: ${loads.map((x) => x.toFixed(0)).join(', ')} ms)`);
 
-const files = readdirSync('dist').filter((f) => /\.(html|js|wasm|css)$/.test(f) && f !== 'sw.js');
+const dist = process.env.KNEEPOINT_DIST || 'dist';
+const files = readdirSync(dist).filter((f) => /\.(html|js|wasm|css)$/.test(f) && f !== 'sw.js');
 let raw = 0;
 let gz = 0;
 for (const kind of ['html', 'js', 'wasm', 'css']) {
   const fs = files.filter((f) => f.endsWith(`.${kind}`));
-  const r = fs.reduce((n, f) => n + readFileSync(join('dist', f)).length, 0);
-  const g = fs.reduce((n, f) => n + gzipSync(readFileSync(join('dist', f)), { level: 9 }).length, 0);
+  const r = fs.reduce((n, f) => n + readFileSync(join(dist, f)).length, 0);
+  const g = fs.reduce((n, f) => n + gzipSync(readFileSync(join(dist, f)), { level: 9 }).length, 0);
   raw += r;
   gz += g;
   console.log(`size ${kind.padEnd(4)}: ${(r / 1024).toFixed(1)} KiB raw, ${(g / 1024).toFixed(1)} KiB gzipped (${fs.join(', ')})`);
