@@ -277,3 +277,17 @@ test('touch targets and no sideways scrolling on tablets and phones', async () =
     });
   }
 });
+
+test('the printed design sheet is one A4 page with inputs, results and both charts', async () => {
+  await withApp(undefined, async (b, page) => {
+    await openApp(page);
+    await page.emulateMedia({ media: 'print' });
+    for (const sel of ['.inputs-table', '[data-testid="results"]', '[data-testid="staircase-svg"]', '[data-testid="power-svg"]', '.print-safety']) {
+      assert.ok(await page.locator(sel).isVisible(), `${sel} is on the sheet`);
+    }
+    assert.equal(await page.locator('.inputs .slider').first().isVisible(), false, 'no sliders on paper');
+    const pdf = (await page.pdf({ format: 'A4' })).toString('latin1');
+    const pages = (pdf.match(/\/Type\s*\/Page[^s]/g) || []).length;
+    assert.equal(pages, 1);
+  });
+});
