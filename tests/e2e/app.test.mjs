@@ -190,6 +190,13 @@ test('saved designs survive a reload, and a damaged entry does not stop the app'
     assert.equal(await value(page, UNLOADING), '40');
     await page.locator('[data-testid="saved-row"][data-name="Press B"] [data-testid="saved-open"]').click();
     assert.equal(await value(page, UNLOADING), '50');
+    // Rename keeps the design under its new name only.
+    const rowB = page.locator('[data-testid="saved-row"][data-name="Press B"]');
+    await rowB.getByRole('button', { name: 'Rename' }).click();
+    await rowB.getByLabel('New name').fill('Press C');
+    await rowB.locator('form button[type="submit"]').click();
+    await page.locator('[data-testid="saved-row"][data-name="Press C"]').waitFor();
+    assert.equal(await page.locator('[data-testid="saved-row"][data-name="Press B"]').count(), 0);
     // Delete asks once more before it removes.
     const del = page.locator('[data-testid="saved-row"][data-name="Press A"] [data-testid="saved-delete"]');
     await del.click();
