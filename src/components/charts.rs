@@ -226,6 +226,11 @@ fn chart_svg(
     }
 }
 
+/// Shown in place of a chart before any valid design.
+fn placeholder() -> impl IntoView {
+    view! { <p class="placeholder">"No result yet: fix the marked inputs."</p> }
+}
+
 /// The pressure-flow staircase with regimes, knees and operating points.
 #[component]
 pub fn StaircaseChart(
@@ -242,8 +247,7 @@ pub fn StaircaseChart(
     });
     move || {
         let Some(g) = geom.get() else {
-            return view! { <p class="placeholder">"No result yet: fix the marked inputs."</p> }
-                .into_any();
+            return placeholder().into_any();
         };
         let f = g.frame;
         let label = format!(
@@ -327,8 +331,7 @@ pub fn PowerChart(
     });
     move || {
         let Some(g) = geom.get() else {
-            return view! { <p class="placeholder">"No result yet: fix the marked inputs."</p> }
-                .into_any();
+            return placeholder().into_any();
         };
         let f = g.frame;
         let motor = g.motor.clone().map(|(yy, m)| {
