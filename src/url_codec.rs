@@ -13,15 +13,40 @@
 //! design carries (duty cycle, faults, anything added later) travels too,
 //! and the result is read by the same reader as a design file.
 //!
+//! The bases are frozen: [`LINK_BASES`] holds each demo design's file as it
+//! was when link version 1 was defined (`src/link_bases/*.json`), so editing
+//! a demo design later never changes what an old link opens. A new base gets
+//! a new name; a design-file field added later must have a serde default, as
+//! for any older design file.
+//!
 //! Decoding never panics and never runs anything: the text only becomes a
 //! [`Design`] through serde, or an error.
 
-use kneepoint_engine::design::{Design, EXAMPLES};
+use kneepoint_engine::design::Design;
 use kneepoint_engine::io;
 use kneepoint_engine::UnitSystem;
 use serde_json::{Map, Value};
 
 use crate::base64url;
+
+/// The frozen bases of link version 1: name and design file text. The
+/// first is the default when a link names none.
+pub const LINK_BASES: &[(&str, &str)] = &[
+    (
+        "workshop-press",
+        include_str!("link_bases/workshop-press.json"),
+    ),
+    ("baler", include_str!("link_bases/baler.json")),
+    ("clamp", include_str!("link_bases/clamp.json")),
+];
+
+/// The JSON of the frozen base `name`.
+fn base_value(name: &str) -> Option<Value> {
+    LINK_BASES
+        .iter()
+        .find(|(n, _)| *n == name)
+        .and_then(|(_, text)| serde_json::from_str(text).ok())
+}
 
 /// Version of the link format written here.
 pub const LINK_VERSION: u32 = 1;
@@ -98,8 +123,10 @@ fn units_code(u: UnitSystem) -> &'static str {
 pub fn encode(design: &Design, units: UnitSystem, view: Option<&str>) -> String {
     let target = to_value(design);
     let mut best: (usize, Option<String>) = (0, None);
-    for (i, ex) in EXAMPLES.iter().enumerate() {
-        let base = to_value(&(ex.build)());
+    for (i, (name, _)) in LINK_BASES.iter().enumerate() {
+        let Some(base) = base_value(name) else {
+            continue;
+        };
         let d = match diff(&base, &target) {
             None => String::new(),
             Some(p) => base64url::encode(p.to_string().as_bytes()),
@@ -112,7 +139,7 @@ pub fn encode(design: &Design, units: UnitSystem, view: Option<&str>) -> String 
     let mut s = format!(
         "v={LINK_VERSION}&u={}&base={}",
         units_code(units),
-        EXAMPLES.get(i).map_or("", |e| e.name)
+        LINK_BASES.get(i).map_or("", |b| b.0)
     );
     if let Some(v) = view {
         s.push_str("&view=");
@@ -165,12 +192,9 @@ pub fn decode(fragment: &str) -> Result<Shared, LinkError> {
         Some("us") => UnitSystem::Us,
         Some(u) => return Err(LinkError::UnknownUnits(u.to_string())),
     };
-    let base_name = base.unwrap_or(EXAMPLES[0].name);
-    let ex = EXAMPLES
-        .iter()
-        .find(|e| e.name == base_name)
+    let base_name = base.unwrap_or(LINK_BASES[0].0);
+    let mut doc = base_value(base_name)
         .ok_or_else(|| LinkError::UnknownBase(base_name.to_string()))?;
-    let mut doc = to_value(&(ex.build)());
     if let Some(d) = data.filter(|d| !d.is_empty()) {
         let bytes = base64url::decode(d).ok_or(LinkError::BadEncoding)?;
         let text = String::from_utf8(bytes).map_err(|_| LinkError::BadEncoding)?;
@@ -316,6 +340,21 @@ mod tests {
             let mut d = doc.clone();
             merge_patch(&mut d, &patch);
             assert_eq!(d, want, "{doc} + {patch}");
+        }
+    }
+
+    /// Old links must keep opening what they opened: each frozen base is a
+    /// valid design file, a link naming it opens exactly that file, and the
+    /// bases are the demo names.
+    #[test]
+    fn frozen_bases_open_exactly_their_file() {
+        assert_eq!(LINK_BASES.len(), EXAMPLES.len());
+        for (name, text) in LINK_BASES {
+            let file = io::parse_design(text).expect("frozen base parses");
+            kneepoint_engine::Circuit::new(&file).expect("frozen base is valid");
+            let back = decode(&format!("v=1&base={name}")).expect("base link");
+            assert_eq!(back.design, file, "{name}");
+            assert!(EXAMPLES.iter().any(|e| e.name == *name), "{name}");
         }
     }
 
