@@ -483,3 +483,22 @@ pub fn PowerLegend() -> impl IntoView {
         </ul>
     }
 }
+
+/// The width (px) of the element behind `node`, measured after the first
+/// frame and again on every window resize, for chart drawings that are laid
+/// out in pixels. Starts at 640 px until measured.
+pub fn use_box_width(node: NodeRef<leptos::html::Div>) -> RwSignal<f64> {
+    let width = RwSignal::new(640.0);
+    let remeasure = move || {
+        let Some(el) = node.get_untracked() else {
+            return;
+        };
+        let w = f64::from(el.client_width());
+        if w > 0.0 && (w - width.get_untracked()).abs() >= 1.0 {
+            width.set(w);
+        }
+    };
+    request_animation_frame(remeasure);
+    let _ = window_event_listener(leptos::ev::resize, move |_| remeasure());
+    width
+}

@@ -5,6 +5,7 @@ use kneepoint_engine::fields::{Group, FIELDS};
 use kneepoint_engine::units::unit;
 use leptos::prelude::*;
 
+use crate::components::charts::use_box_width;
 use crate::components::charts::{
     PowerChart, PowerLegend, Readout, StaircaseChart, StaircaseLegend,
 };
@@ -15,13 +16,6 @@ use crate::components::results::Results;
 use crate::components::safety::SafetyNotes;
 use crate::model::value_text;
 use crate::state::AppState;
-
-/// Width of the chart column now (px), for the chart drawings.
-fn measure(node: &NodeRef<leptos::html::Div>) -> Option<f64> {
-    let el = node.get_untracked()?;
-    let w = f64::from(el.client_width());
-    (w > 0.0).then_some(w)
-}
 
 /// Every input with its value, for the printed sheet only.
 #[component]
@@ -74,16 +68,7 @@ fn PrintedInputs() -> impl IntoView {
 #[component]
 pub fn CircuitView() -> impl IntoView {
     let charts_box = NodeRef::<leptos::html::Div>::new();
-    let width = RwSignal::new(640.0);
-    let remeasure = move || {
-        if let Some(w) = measure(&charts_box) {
-            if (w - width.get_untracked()).abs() >= 1.0 {
-                width.set(w);
-            }
-        }
-    };
-    request_animation_frame(remeasure);
-    let _ = window_event_listener(leptos::ev::resize, move |_| remeasure());
+    let width = use_box_width(charts_box);
     view! {
         <div class="circuit">
             <section class="charts panel" aria-labelledby="charts-h">

@@ -7,6 +7,7 @@ use kneepoint_engine::fields::Group;
 use kneepoint_engine::Quantity;
 use leptos::prelude::*;
 
+use crate::components::charts::use_box_width;
 use crate::components::cycle_input::CycleNumber;
 use crate::components::cycle_results::{CycleTotals, CycleWarnings, TargetsCard};
 use crate::components::field::FieldGroup;
@@ -96,29 +97,13 @@ fn more_cycle_inputs(st: AppState) -> impl IntoView {
     }
 }
 
-/// Width of an element now (px).
-fn measure(node: &NodeRef<leptos::html::Div>) -> Option<f64> {
-    let el = node.get_untracked()?;
-    let w = f64::from(el.client_width());
-    (w > 0.0).then_some(w)
-}
-
 /// The duty-cycle view.
 #[component]
 pub fn CycleView() -> impl IntoView {
     let st = expect_context::<AppState>();
     provide_context(TimeCursor(RwSignal::new(None)));
     let charts_box = NodeRef::<leptos::html::Div>::new();
-    let width = RwSignal::new(640.0);
-    let remeasure = move || {
-        if let Some(w) = measure(&charts_box) {
-            if (w - width.get_untracked()).abs() >= 1.0 {
-                width.set(w);
-            }
-        }
-    };
-    request_animation_frame(remeasure);
-    let _ = window_event_listener(leptos::ev::resize, move |_| remeasure());
+    let width = use_box_width(charts_box);
     view! {
         <div class="cycle">
             <section class="cycle-charts panel" aria-labelledby="timeline-h">
