@@ -106,6 +106,10 @@ fn sync_address(st: AppState) {
             Ok(s) => {
                 st.units.set(s.units);
                 st.load(s.design);
+                // A pasted link that names a view opens it, as on a fresh load.
+                if let Some(v) = s.view.as_deref().and_then(ViewId::from_code) {
+                    st.view.set(v);
+                }
                 last.set_value(frag);
             }
             Err(e) => st.notify(NoticeKind::Problem, e.message()),

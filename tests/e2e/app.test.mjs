@@ -133,6 +133,17 @@ test('a link restores every input exactly', async () => {
   });
 });
 
+test('a link pasted into the open page loads its design and opens the view it names', async () => {
+  await withApp(undefined, async (b, page) => {
+    await openApp(page);
+    await page.evaluate(() => {
+      location.hash = '#v=1&u=us&base=baler&view=cycle';
+    });
+    await page.waitForSelector('[data-testid="timeline"] svg', { timeout: 10000 });
+    assert.equal(await page.getAttribute('[data-testid="units-us"]', 'aria-pressed'), 'true');
+  });
+});
+
 test('a broken or tampered link shows a notice and the demo design, and runs nothing', async () => {
   const b64 = (s) => Buffer.from(s).toString('base64url');
   const links = [
