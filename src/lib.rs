@@ -25,3 +25,21 @@ pub mod ticks;
 pub mod timeline_geom;
 pub mod url_codec;
 pub mod views;
+
+/// Benchmark hook for `make bench-web` (`tests/e2e/bench.mjs`): evaluates
+/// the duty cycle of the demo design `name` `runs` times and returns the sum
+/// of the cycle times (s), so the work cannot be skipped. The caller times
+/// it; NaN for an unknown or invalid demo. Nothing in the page calls it.
+#[wasm_bindgen::prelude::wasm_bindgen]
+pub fn bench_cycle(name: &str, runs: u32) -> f64 {
+    let Some(design) = kneepoint_engine::example(name) else {
+        return f64::NAN;
+    };
+    let Ok(circuit) = kneepoint_engine::Circuit::new(&design) else {
+        return f64::NAN;
+    };
+    (0..runs)
+        .filter_map(|_| kneepoint_engine::cycle::evaluate_cycle(&circuit).ok())
+        .map(|r| r.totals.cycle_time_s)
+        .sum()
+}

@@ -62,13 +62,36 @@ const steps = await page.evaluate(async () => {
   }
   return out;
 });
-await b.close();
 
 const dom = steps.map((s) => s.dom);
 const missed = steps.filter((s) => !s.inFrame).length;
+// Duty cycle in wasm: the app's bench_cycle export, called on the module the
+// page already started; 11 batches of 50 evaluations per demo design, timed
+// with performance.now() around each batch (Chromium coarsens the clock, so
+// whole batches are timed). Compare with `cargo bench --bench cycle`.
+const cycleWasm = await page.evaluate(async () => {
+  const tag = document.querySelector('script[data-kneepoint-js]');
+  const m = await import(tag.dataset.kneepointJs);
+  const out = {};
+  for (const name of ['workshop-press', 'baler', 'clamp']) {
+    const per = [];
+    m.bench_cycle(name, 20); // warm-up
+    for (let i = 0; i < 11; i++) {
+      const t0 = performance.now();
+      const s = m.bench_cycle(name, 50);
+      per.push(((performance.now() - t0) / 50) * 1000);
+      if (!(s > 0)) throw new Error(`bench_cycle(${name}) gave ${s}`);
+    }
+    per.sort((a, b) => a - b);
+    out[name] = per[5];
+  }
+  return out;
+});
+await b.close();
 console.log(`bench-web: ${BASE}`);
 console.log(`slider step, input to DOM updated: p50 ${pct(dom, 50).toFixed(2)} ms, p95 ${pct(dom, 95).toFixed(2)} ms, max ${Math.max(...dom).toFixed(2)} ms (200 steps)`);
 console.log(`slider step, DOM updated before the next animation frame: ${200 - missed} of 200`);
+for (const [n, us] of Object.entries(cycleWasm)) console.log(`duty cycle in wasm, ${n}: median ${us.toFixed(1)} µs per evaluation (11 batches of 50)`);
 console.log(`cold load to first chart: median ${pct(loads, 50).toFixed(0)} ms (5 fresh profiles: ${loads.map((x) => x.toFixed(0)).join(', ')} ms)`);
 
 const dist = process.env.KNEEPOINT_DIST || 'dist';
