@@ -136,6 +136,13 @@ pub enum WarningKind {
         /// Reynolds number.
         reynolds: f64,
     },
+    /// Delivery rises with pressure somewhere in the unloader band: the
+    /// inputs are outside what the linear band model describes (a pump
+    /// that leaks most of its flow, or a check valve far too small).
+    BandModelInvalid {
+        /// Pressure where the rise was found (Pa).
+        pressure_pa: f64,
+    },
     /// The installed motor is below the peak corner power.
     MotorBelowPeak {
         /// Peak corner power (W).
@@ -216,6 +223,10 @@ impl Warning {
             TransitionFlow { line, reynolds } => format!(
                 "{} line flow is in the laminar-turbulent transition (Re = {reynolds:.0}); its loss is uncertain. Treat the line drop as an estimate.",
                 match line { Line::Pressure => "Pressure", Line::Return => "Return" }
+            ),
+            BandModelInvalid { pressure_pa } => format!(
+                "Flow to the cylinder rises with pressure near {} in the unloader band, which a real circuit does not do: these inputs are outside the model (a large pump that leaks most of its flow at this pressure, or a check valve rated far below the pump flow). Check the large pump's efficiency and rated pressure and the check valve's rated point; treat results near the unloading setting as unreliable.",
+                p(units, pressure_pa)
             ),
             MotorBelowPeak { peak_w, rating_w } => format!(
                 "The motor rating {} is below the peak corner power {}. Choose a larger motor or lower the unloading setting toward the equal-corner value.",
@@ -391,6 +402,12 @@ pub fn warnings(
             }
         }
     }
+    if let Some(pressure_pa) = band_rise(c) {
+        add(
+            BandModelInvalid { pressure_pa },
+            "large_pump.volumetric_efficiency",
+        );
+    }
     if let Some(rating_w) = d.drive.motor_rating_w {
         let peak = corners.low_w.max(corners.high_w);
         if peak > rating_w {
@@ -404,4 +421,28 @@ pub fn warnings(
         }
     }
     w
+}
+
+/// Samples the unloader band (and a little either side) and returns the
+/// first pressure where the flow out of the power unit rises with pressure
+/// by more than a millionth of the pump flow; `None` when it never does.
+/// Brief §3.2 requires Q_sys(p) non-increasing; the solvers rely on it.
+fn band_rise(c: &Circuit) -> Option<f64> {
+    const STEPS: usize = 32;
+    let lo = (c.unloading_pa() * 0.98).min(c.relief_full_pa());
+    let hi = (c.unloading_full_pa() * 1.02).min(c.relief_full_pa());
+    if hi <= lo {
+        return None;
+    }
+    let tol = 1e-6 * (c.large_theoretical_flow() + c.small_theoretical_flow());
+    let mut prev = c.pump_point_unchecked(lo).out_flow_m3s;
+    for i in 1..=STEPS {
+        let p = lo + (hi - lo) * i as f64 / STEPS as f64;
+        let q = c.pump_point_unchecked(p).out_flow_m3s;
+        if q > prev + tol {
+            return Some(p);
+        }
+        prev = q;
+    }
+    None
 }

@@ -563,3 +563,21 @@ fn every_warning_says_what_to_do_in_both_unit_systems() {
         }
     }
 }
+
+#[test]
+fn band_model_invalid() {
+    // Outside the band model: a check valve rated at a tenth of the large
+    // pump's flow, on a large pump that leaks hard (common practice, no
+    // source: real check valves are sized for the full flow).
+    let mut d = Design::default();
+    d.check_valve.rated_flow_m3s = 2.3 / 60_000.0;
+    d.large_pump.volumetric_efficiency = 0.75;
+    d.large_pump.rated_pressure_pa = 10.0 * BAR;
+    let w = find(&d, |k| matches!(k, WarningKind::BandModelInvalid { .. }));
+    assert_eq!(w.field, "large_pump.volumetric_efficiency");
+    for e in kneepoint_engine::EXAMPLES {
+        absent(&(e.build)(), |k| {
+            matches!(k, WarningKind::BandModelInvalid { .. })
+        });
+    }
+}
