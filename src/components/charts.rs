@@ -169,17 +169,8 @@ pub(crate) fn key_step(key: &str, now: Option<f64>, x: &Scale) -> Option<Option<
     }))
 }
 
-/// The vertical cursor line, drawn from the shared cursor.
-fn cursor_line(cursor: Cursor, f: Frame, x: Scale) -> impl IntoView {
-    move || {
-        cursor.0.get().map(|p| {
-            let xx = num(x.map(p));
-            view! { <line class="cursor" x1=xx.clone() x2=xx y1=num(f.top) y2=num(f.bottom) /> }
-        })
-    }
-}
-
-/// The SVG element with pointer and key handlers.
+/// The SVG element of the staircase and power charts, with pointer and key
+/// handlers feeding the shared pressure cursor.
 fn chart_svg(
     f: Frame,
     x: Scale,
@@ -188,10 +179,30 @@ fn chart_svg(
     testid: &'static str,
     body: AnyView,
 ) -> impl IntoView {
-    let c = cursor.0;
+    interactive_svg(f, x, cursor.0, "chart-svg", label, testid, body)
+}
+
+/// An SVG chart whose x value under the pointer, finger or arrow keys is
+/// written to `c`, with a vertical cursor line drawn at `c`. Shared by the
+/// pressure charts and the cycle timelines.
+pub(crate) fn interactive_svg(
+    f: Frame,
+    x: Scale,
+    c: RwSignal<Option<f64>>,
+    class: &'static str,
+    label: String,
+    testid: &'static str,
+    body: AnyView,
+) -> impl IntoView {
+    let line = move || {
+        c.get().map(|v| {
+            let xx = num(x.map(v));
+            view! { <line class="cursor" x1=xx.clone() x2=xx y1=num(f.top) y2=num(f.bottom) /> }
+        })
+    };
     view! {
         <svg
-            class="chart-svg"
+            class=class
             viewBox=view_box(&f)
             role="img"
             aria-label=label
@@ -221,7 +232,7 @@ fn chart_svg(
             }
         >
             {body}
-            {cursor_line(cursor, f, x)}
+            {line}
         </svg>
     }
 }

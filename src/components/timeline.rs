@@ -8,7 +8,7 @@ use kneepoint_engine::Quantity;
 use leptos::prelude::*;
 
 use crate::chart::{capitalise, Frame, Scale};
-use crate::components::charts::{axes, key_step, num, pointer_pressure, view_box};
+use crate::components::charts::{axes, interactive_svg, num};
 use crate::state::AppState;
 use crate::timeline_geom::{self, band_label_y, Label, SegmentBand};
 
@@ -65,46 +65,7 @@ fn timeline_svg(
     body: AnyView,
 ) -> impl IntoView {
     let c = expect_context::<TimeCursor>().0;
-    let line = move || {
-        c.get().map(|t| {
-            let xx = num(x.map(t));
-            view! { <line class="cursor" x1=xx.clone() x2=xx y1=num(f.top) y2=num(f.bottom) /> }
-        })
-    };
-    view! {
-        <svg
-            class="chart-svg timeline-svg"
-            viewBox=view_box(&f)
-            role="img"
-            aria-label=label
-            tabindex="0"
-            data-testid=testid
-            on:pointermove=move |ev: web_sys::PointerEvent| {
-                if let Some(t) = pointer_pressure(&ev, &f, &x) {
-                    c.set(Some(t));
-                }
-            }
-            on:pointerdown=move |ev: web_sys::PointerEvent| {
-                if let Some(t) = pointer_pressure(&ev, &f, &x) {
-                    c.set(Some(t));
-                }
-            }
-            on:pointerleave=move |ev: web_sys::PointerEvent| {
-                if ev.pointer_type() == "mouse" {
-                    c.set(None);
-                }
-            }
-            on:keydown=move |ev: web_sys::KeyboardEvent| {
-                if let Some(next) = key_step(&ev.key(), c.get_untracked(), &x) {
-                    ev.prevent_default();
-                    c.set(next);
-                }
-            }
-        >
-            {body}
-            {line}
-        </svg>
-    }
+    interactive_svg(f, x, c, "chart-svg timeline-svg", label, testid, body)
 }
 
 /// Piston position and pressure against time.
