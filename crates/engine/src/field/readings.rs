@@ -16,7 +16,7 @@ use crate::units::Quantity;
 pub struct TimedStroke {
     /// Distance travelled (m), measured on the rod or the platen.
     pub distance_m: f64,
-    /// Time taken (s), by stopwatch or video.
+    /// Time taken (s), by stopwatch or from a phone recording.
     pub time_s: f64,
     /// System gauge during the timed stretch (Pa), if read.
     #[serde(default, skip_serializing_if = "Option::is_none")]
