@@ -242,6 +242,9 @@ pub struct DiagramState {
     pub check: CheckState,
     /// System oil leaks back through the (closed) check valve.
     pub check_leaking: bool,
+    /// The check valve is stuck (a simulated fault): `data-state` value
+    /// "stuck-open" or "stuck-shut", and a mark on the drawing.
+    pub check_stuck: Option<&'static str>,
     /// The unloading valve.
     pub unloader: UnloaderState,
     /// How far it is open, 0 ..= 1.
@@ -311,7 +314,19 @@ pub fn diagram_state(s: &ComponentStates, units: UnitSystem) -> DiagramState {
     // The tank-line meter (G3) sees the dumped flow and any back-leak.
     let tank_line = s.large_to_tank_m3s + s.check_back_leak_m3s;
     let net_large = s.large_to_system_m3s - s.check_back_leak_m3s;
+    let check_stuck = s.check_stuck.map(|k| match k {
+        kneepoint_engine::faults::Stuck::Open => "stuck-open",
+        kneepoint_engine::faults::Stuck::Closed => "stuck-shut",
+    });
     let check_words = match check {
+        _ if check_stuck == Some("stuck-open") => {
+            "stuck open (fault): the system drains through the unloader once it opens"
+                .to_string()
+        }
+        _ if check_stuck == Some("stuck-shut") => {
+            "stuck shut (fault): nothing from the large pump reaches the system"
+                .to_string()
+        }
         CheckState::Open => "open".to_string(),
         CheckState::Closed if check_leaking => "closed, leaking back".to_string(),
         CheckState::Closed => "closed".to_string(),
@@ -469,6 +484,7 @@ pub fn diagram_state(s: &ComponentStates, units: UnitSystem) -> DiagramState {
         pressure_pa: s.pressure_pa,
         check,
         check_leaking,
+        check_stuck,
         unloader,
         unloader_open_fraction: fr,
         relief_passing: s.relief_passing,
@@ -550,6 +566,27 @@ mod tests {
         let c = Circuit::new(&low).unwrap();
         assert!(state(&low, c.relief_full_pa()).relief_passing);
         assert!(!state(&base, p_press).check_leaking);
+        assert_eq!(state(&base, p_press).check_stuck, None);
+        // A stuck check: its own state code and words, at any pressure.
+        for (how, code, seat) in [
+            (Stuck::Open, "stuck-open", CheckState::Open),
+            (Stuck::Closed, "stuck-shut", CheckState::Closed),
+        ] {
+            let mut d = base.clone();
+            d.faults.check_stuck = Some(how);
+            for p in [0.0, 0.5 * c.unloading_pa()] {
+                let s = state(&d, p);
+                assert_eq!(s.check_stuck, Some(code));
+                assert_eq!(s.check, seat);
+                assert!(s.words.iter().any(|w| w.contains("stuck")), "{:?}", s.words);
+            }
+        }
+        // Stuck shut, the large-pump gauge (G2) reads far above the system.
+        let mut shut = base.clone();
+        shut.faults.check_stuck = Some(Stuck::Closed);
+        let p = 0.5 * c.unloading_pa();
+        let s = component_states(&Circuit::new(&shut).unwrap(), p).unwrap();
+        assert!(s.large_outlet_pa > 2.0 * p);
     }
 
     #[test]

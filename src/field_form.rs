@@ -616,6 +616,11 @@ pub fn fault_words(f: &Faults, relief_full_pa: f64, units: UnitSystem) -> Vec<St
         Some(Stuck::Closed) => w.push("unloading valve stuck shut".into()),
         None => {}
     }
+    match f.check_stuck {
+        Some(Stuck::Open) => w.push("check valve stuck open".into()),
+        Some(Stuck::Closed) => w.push("check valve stuck shut".into()),
+        None => {}
+    }
     if let Some(r) = f.relief_scale {
         w.push(format!("relief valve at {:.0} % of its setting", 100.0 * r));
     }

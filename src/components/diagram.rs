@@ -123,6 +123,7 @@ fn drawing(ds: Memo<Option<DiagramState>>) -> impl IntoView {
     let on = move |pick: fn(&Flows) -> bool| Signal::derive(move || pick(&flows()));
     let check_open =
         move || ds.with(|d| d.as_ref().is_some_and(|d| d.check == g::CheckState::Open));
+    let check_stuck = move || ds.with(|d| d.as_ref().and_then(|d| d.check_stuck));
     let fr = Signal::derive(move || {
         ds.with(|d| d.as_ref().map_or(0.0, |d| d.unloader_open_fraction))
     });
@@ -191,12 +192,31 @@ fn drawing(ds: Memo<Option<DiagramState>>) -> impl IntoView {
             class="dg-check"
             class:open=check_open
             data-testid="dg-check"
-            data-state=move || if check_open() { "open" } else { "closed" }
+            class:stuck=move || check_stuck().is_some()
+            data-state=move || {
+                check_stuck().unwrap_or(if check_open() { "open" } else { "closed" })
+            }
             data-leaking=move || ds.with(|d| d.as_ref().is_some_and(|d| d.check_leaking)).to_string()
         >
             <path class="dg-sym" d=polyline(&[Pt(CHECK.0 - 11.0, CHECK.1 - 14.0), Pt(CHECK.0, CHECK.1), Pt(CHECK.0 + 11.0, CHECK.1 - 14.0)]) />
             <circle class="dg-sym dg-ball" cx=n(CHECK.0) cy=move || n(ball_y()) r="7" />
             <path class="dg-thin" d=move || spring(Pt(CHECK.0 + 4.0, ball_y() - 6.0), Pt(CHECK.0 + 14.0, ball_y() - 18.0), 2, 3.0) />
+            // A simulated stuck check: a cross through the ball and a word.
+            {move || {
+                check_stuck()
+                    .map(|code| {
+                        let by = ball_y();
+                        view! {
+                            <g class="dg-stuck-mark" data-testid="dg-check-stuck">
+                                <path d=polyline(&[Pt(CHECK.0 - 10.0, by - 10.0), Pt(CHECK.0 + 10.0, by + 10.0)]) />
+                                <path d=polyline(&[Pt(CHECK.0 + 10.0, by - 10.0), Pt(CHECK.0 - 10.0, by + 10.0)]) />
+                                <text x=n(CHECK.0 - 14.0) y=n(by - 12.0) text-anchor="end">
+                                    {if code == "stuck-open" { "STUCK OPEN" } else { "STUCK SHUT" }}
+                                </text>
+                            </g>
+                        }
+                    })
+            }}
         </g>
         // Unloading valve (external pilot) and relief valve (internal pilot).
         <g

@@ -1,5 +1,6 @@
 //! The fault simulator (for trainers): inject worn pumps, a leaking check
-//! valve, a mis-set or stuck unloading valve, a relief set low or high.
+//! valve, a check valve stuck open or shut, a mis-set or stuck unloading
+//! valve, a relief set low or high.
 //! Faults live in the design (`Design.faults`), so the staircase, the power
 //! curve, the duty cycle and the diagram all show them; the machine check
 //! still compares with the design as intended.
@@ -132,6 +133,8 @@ fn scenario(d: &mut Design, which: &str) {
         }
         "unloader-open" => f.unloader_stuck = Some(Stuck::Open),
         "unloader-shut" => f.unloader_stuck = Some(Stuck::Closed),
+        "check-open" => f.check_stuck = Some(Stuck::Open),
+        "check-shut" => f.check_stuck = Some(Stuck::Closed),
         "relief-low" => f.relief_scale = Some(0.6),
         _ => {}
     }
@@ -145,6 +148,8 @@ const SCENARIOS: &[(&str, &str)] = &[
     ("unloader-high", "Unloader set high"),
     ("unloader-open", "Unloader stuck open"),
     ("unloader-shut", "Unloader stuck shut"),
+    ("check-open", "Check valve stuck open"),
+    ("check-shut", "Check valve stuck shut"),
     ("relief-low", "Relief set low"),
 ];
 
@@ -169,6 +174,18 @@ pub fn FaultPanel(
                 aria-pressed=move || (faults(&st).unloader_stuck == s).to_string()
                 data-testid=format!("fault-stuck-{code}")
                 on:click=move |_| st.rest.update(|d| d.faults.unloader_stuck = s)
+            >
+                {text}
+            </button>
+        }
+    };
+    let check = move |s: Option<Stuck>, text: &'static str, code: &'static str| {
+        view! {
+            <button
+                type="button"
+                aria-pressed=move || (faults(&st).check_stuck == s).to_string()
+                data-testid=format!("fault-check-stuck-{code}")
+                on:click=move |_| st.rest.update(|d| d.faults.check_stuck = s)
             >
                 {text}
             </button>
@@ -247,6 +264,16 @@ pub fn FaultPanel(
                         {stuck(None, "Free", "free")}
                         {stuck(Some(Stuck::Open), "Stuck open", "open")}
                         {stuck(Some(Stuck::Closed), "Stuck shut", "shut")}
+                    </div>
+                </div>
+                <div class="observe">
+                    <span id="check-stuck-label" class="reading-label">
+                        "Check valve poppet"
+                    </span>
+                    <div class="toggle big" role="group" aria-labelledby="check-stuck-label">
+                        {check(None, "Free", "free")}
+                        {check(Some(Stuck::Open), "Stuck open", "open")}
+                        {check(Some(Stuck::Closed), "Stuck shut", "shut")}
                     </div>
                 </div>
             </div>

@@ -210,6 +210,31 @@ test('the fault simulator: a stuck-shut unloader is flagged, diagnosed from its 
   });
 });
 
+test('the fault simulator: a stuck check valve shows on the diagram and is diagnosed from its readings', async () => {
+  await withField(async (b, page) => {
+    await page.click('[data-testid="scenario-check-shut"]');
+    await page.locator('[data-testid="fault-flag"]').waitFor();
+    assert.match(await page.locator('[data-testid="fault-flag"]').textContent(), /check valve stuck shut/);
+    await showAt(page, 100);
+    assert.equal(await state(page, 'field', 'dg-check'), 'stuck-shut');
+    await page.locator('[data-testid="diagram-field-svg"] [data-testid="dg-check-stuck"]').waitFor();
+    await page.click('[data-testid="take-readings"]');
+    await page.locator('[data-testid="finding"]').first().waitFor();
+    assert.equal(await firstCause(page), 'check_stuck_shut');
+    await page.click('[data-testid="fault-check-stuck-open"]');
+    assert.equal(await page.locator('[data-testid="fault-check-stuck-open"]').getAttribute('aria-pressed'), 'true');
+    await page.waitForFunction(() =>
+      document.querySelector('[data-testid="diagram-field-svg"] [data-testid="dg-check"]')?.getAttribute('data-state') === 'stuck-open');
+    await page.click('[data-testid="take-readings"]');
+    await page.waitForFunction(() =>
+      document.querySelector('[data-testid="finding"]')?.getAttribute('data-cause') === 'check_stuck_open');
+    await page.click('[data-testid="fault-flag-clear"]');
+    await page.locator('[data-testid="fault-flag"]').waitFor({ state: 'detached' });
+    assert.notEqual(await state(page, 'field', 'dg-check'), 'stuck-open');
+    assert.deepEqual(b.watch.errors, []);
+  });
+});
+
 test('no horizontal scroll and 44 px targets on the machine check at phone size', async () => {
   await withField(async (b, page) => {
     const r = await page.evaluate(() => {

@@ -11,7 +11,7 @@ use serde::Serialize;
 
 use crate::design::Design;
 use crate::error::{Checker, ErrorKind, SolveError, ValidationErrors};
-use crate::faults::FaultEffects;
+use crate::faults::{FaultEffects, Stuck};
 use crate::lines::{self, HoseLoss};
 use crate::units::Quantity;
 
@@ -80,7 +80,17 @@ pub struct Circuit {
     pub(crate) k_pline: f64,
     pub(crate) k_rline: f64,
     pub(crate) unloader_stuck: Option<f64>,
+    /// How the check valve is stuck, a fault.
+    pub(crate) check_stuck: Option<Stuck>,
+    /// Pressure at which the large-pump side gives when it is dead-headed
+    /// (its own relief, or where leakage eats its flow, capped) (Pa).
+    pub(crate) large_dead_head_pa: f64,
 }
+
+/// Cap on the dead-headed large-pump outlet when nothing limits it, as a
+/// multiple of the relief's full-flow pressure (derived, modelling choice:
+/// a hose or seal is taken to give there).
+pub const DEAD_HEAD_CAP_FACTOR: f64 = 3.0;
 
 /// Torque of a pump section without drag: T = V_g·Δp/(2π·η_hm) (brief §2.2),
 /// written with V_g/(2π) = Q_th/ω.
@@ -128,6 +138,15 @@ impl Circuit {
         let ln = &d.lines;
         let a_cap = PI * d.cylinder.bore_m.powi(2) / 4.0;
         let a_ann = PI * (d.cylinder.bore_m.powi(2) - d.cylinder.rod_m.powi(2)) / 4.0;
+        let p_rf = rv.full_flow_pa * relief_scale;
+        let large_dead_head_pa = d.ratings.large_pump_relief_pa.unwrap_or_else(|| {
+            let cap = DEAD_HEAD_CAP_FACTOR * p_rf;
+            if k_l > 0.0 {
+                (qth_l / k_l).min(cap)
+            } else {
+                cap
+            }
+        });
         Ok(Circuit {
             design: design.clone(),
             omega,
@@ -142,7 +161,7 @@ impl Circuit {
             p_u,
             band: uv.band_fraction * p_u,
             p_rc: rv.cracking_pa * relief_scale,
-            p_rf: rv.full_flow_pa * relief_scale,
+            p_rf,
             a_cap,
             a_ann,
             k_pa: quad(dv.drop_p_a_pa, dv.rated_flow_m3s),
@@ -152,6 +171,8 @@ impl Circuit {
             k_pline: quad(ln.pressure_drop_pa, ln.rated_flow_m3s),
             k_rline: quad(ln.return_drop_pa, ln.rated_flow_m3s),
             unloader_stuck: fx.unloader_stuck_open_fraction,
+            check_stuck: fx.check_stuck,
+            large_dead_head_pa,
         })
     }
 
@@ -195,6 +216,16 @@ impl Circuit {
     /// Effective relief full-flow pressure (Pa).
     pub fn relief_full_pa(&self) -> f64 {
         self.p_rf
+    }
+    /// How the check valve is stuck, if it is (an injected fault).
+    pub fn check_stuck(&self) -> Option<Stuck> {
+        self.check_stuck
+    }
+    /// Pressure at which the large-pump side gives when dead-headed (Pa):
+    /// its own relief if the design has one, else where its leakage eats
+    /// all its flow, Q_th,L/K_L, capped at [`DEAD_HEAD_CAP_FACTOR`]·p_rf.
+    pub fn large_dead_head_pa(&self) -> f64 {
+        self.large_dead_head_pa
     }
     /// Shaft speed (rad/s).
     pub fn omega(&self) -> f64 {
@@ -254,6 +285,26 @@ impl Circuit {
     /// `f` = 0 regime III (brief §3.2); the split of p_L across the band is a
     /// modelling choice that keeps the power balance exact.
     ///
+    /// # Stuck check valve (derived, modelling choice)
+    /// *Stuck open* (brief §8.3): the large-pump outlet is the system node,
+    /// p_L = p, with no cracking drop. The unloader, piloted from p, is an
+    /// orifice to tank sized from the design's back-pressure point
+    /// (Q_ref at p_bp,ref), scaled by its open fraction:
+    /// ```text
+    /// Q_esc = (1 − f)·Q_ref·√(p/p_bp,ref)     (= (1 − f)·√(p/k_bp))
+    /// Q_out = max(0, Q_S + Q_L − Q_esc)·(1 − r)
+    /// ```
+    /// The escape is taken from the large pump's delivery first, then from
+    /// the small pump's (booked as the check back-leak). Delivery stays
+    /// non-increasing in p, and the system stalls near the unloading setting.
+    ///
+    /// *Stuck shut*: nothing from the large pump reaches the system. With
+    /// the unloader shut the large pump is dead-headed at p_dh, its own
+    /// relief if the design has one, else Q_th,L/K_L capped at 3·p_rf; its
+    /// flow there crosses that relief (loss `large_relief`). Across the band
+    /// the unloader is the same orifice: p_L = k_bp·(Q_L/(1 − f))², at most
+    /// p_dh. A back-leak fault is ignored while the check is stuck.
+    ///
     /// # Errors
     /// [`SolveError::PressureOutOfRange`] when `p` is not in 0 ..= p_rf.
     pub fn pump_point(&self, p: f64) -> Result<PumpPoint, SolveError> {
@@ -271,14 +322,61 @@ impl Circuit {
     /// fraction forced to `f` (1 = shut): for the low corner and the
     /// fast-motion pressure, which hold the unloader shut.
     pub(crate) fn pump_point_at(&self, p: f64, f: f64) -> PumpPoint {
-        let d = &self.design;
         // Small pump: laminar slip, never negative delivery.
         let leak_s = (self.k_s * p).min(self.qth_s);
         let q_s = self.qth_s - leak_s;
 
+        match self.check_stuck {
+            Some(Stuck::Open) => return self.stuck_open_point(p, f, q_s, leak_s),
+            Some(Stuck::Closed) => return self.stuck_shut_point(p, f, q_s, leak_s),
+            None => {}
+        }
         // p_L = A + B·Q_L², Q_L = Qth − K·p_L ⇒ K·B·Q² + Q − (Qth − K·A) = 0.
         let a = f * (p + self.p_cv);
         let b = f * f * f * self.k_cv + (1.0 - f).powi(3) * self.k_bp;
+        let (q_l, p_l) = self.large_delivery(a, b);
+        let leak_l = self.qth_l - q_l;
+        let mut q_l_sys = f * q_l;
+        let mut q_l_tank = q_l - q_l_sys;
+        // A leaking check valve lets system oil back through the (open)
+        // unloading valve when the system is above the large-pump outlet.
+        let back_leak = if p > p_l {
+            (self.cv_leak * (p - p_l)).min(q_s + q_l_sys)
+        } else {
+            0.0
+        };
+        q_l_sys -= back_leak;
+        q_l_tank += back_leak;
+        // A back-leak crosses from p to tank: all of p·Q_leak is lost, booked
+        // under the check valve (its effect on p_bp is neglected).
+        // Across the unloader band the blended p_L can fall below p; the
+        // check valve then costs nothing and the unloader carries the whole
+        // p_L·Q_L − p·f·Q_L (≥ 0 because p_L ≥ f·p), so no loss is negative.
+        let (cv_loss, uv_loss) = if p_l >= p {
+            ((p_l - p) * (f * q_l), p_l * (q_l - f * q_l))
+        } else {
+            (0.0, (p_l - f * p) * q_l)
+        };
+        self.assemble(Parts {
+            p,
+            f,
+            p_l,
+            q_s,
+            leak_s,
+            q_l,
+            leak_l,
+            q_l_sys,
+            q_l_tank,
+            back_leak,
+            cv_loss: cv_loss + back_leak * p,
+            uv_loss,
+            large_relief_loss: 0.0,
+        })
+    }
+
+    /// Large pump with p_L = A + B·Q_L² and Q_L = Q_th − K·p_L, solved in
+    /// closed form: K·B·Q² + Q − (Q_th − K·A) = 0. Returns (Q_L, p_L).
+    fn large_delivery(&self, a: f64, b: f64) -> (f64, f64) {
         let c = self.qth_l - self.k_l * a;
         let (mut q_l, mut p_l) = if c <= 0.0 {
             // Leakage would eat all delivery before the check opens.
@@ -301,20 +399,108 @@ impl Circuit {
         if !p_l.is_finite() || p_l < 0.0 {
             p_l = 0.0;
         }
-        let leak_l = self.qth_l - q_l;
-        let mut q_l_sys = f * q_l;
-        let mut q_l_tank = q_l - q_l_sys;
-        // A leaking check valve lets system oil back through the (open)
-        // unloading valve when the system is above the large-pump outlet.
-        let back_leak = if p > p_l {
-            (self.cv_leak * (p - p_l)).min(q_s + q_l_sys)
-        } else {
-            0.0
-        };
-        q_l_sys -= back_leak;
-        q_l_tank += back_leak;
+        (q_l, p_l)
+    }
 
-        let q_pump = q_s + q_l_sys;
+    /// Stuck-open check valve: p_L = p, the open unloader drains the system.
+    fn stuck_open_point(&self, p: f64, f: f64, q_s: f64, leak_s: f64) -> PumpPoint {
+        let leak_l = (self.k_l * p).min(self.qth_l);
+        let q_l = self.qth_l - leak_l;
+        let open = 1.0 - f;
+        let orifice = if open <= 0.0 || p <= 0.0 {
+            0.0
+        } else if self.k_bp > 0.0 {
+            open * (p / self.k_bp).sqrt()
+        } else {
+            f64::INFINITY
+        };
+        let escape = orifice.min(q_s + q_l);
+        let from_l = escape.min(q_l);
+        let from_s = escape - from_l;
+        self.assemble(Parts {
+            p,
+            f,
+            p_l: p,
+            q_s,
+            leak_s,
+            q_l,
+            leak_l,
+            // Exactly −Q_S when everything escapes, so Q_pump is exactly 0.
+            q_l_sys: if orifice >= q_s + q_l {
+                -q_s
+            } else {
+                q_l - escape
+            },
+            q_l_tank: escape,
+            back_leak: from_s,
+            cv_loss: p * from_s,
+            uv_loss: p * from_l,
+            large_relief_loss: 0.0,
+        })
+    }
+
+    /// Stuck-shut check valve: the large pump never reaches the system.
+    fn stuck_shut_point(&self, p: f64, f: f64, q_s: f64, leak_s: f64) -> PumpPoint {
+        let p_dh = self.large_dead_head_pa;
+        let open = 1.0 - f;
+        let dead = |p_l: f64| {
+            let leak = (self.k_l * p_l).min(self.qth_l);
+            (self.qth_l - leak, p_l)
+        };
+        let (q_l, p_l, q_uv) = if open <= 0.0 {
+            let (q, pl) = dead(p_dh);
+            (q, pl, 0.0)
+        } else {
+            let (q, pl) = self.large_delivery(0.0, self.k_bp / (open * open));
+            if pl <= p_dh {
+                (q, pl, q)
+            } else {
+                let (q, pl) = dead(p_dh);
+                let through = if self.k_bp > 0.0 {
+                    open * (p_dh / self.k_bp).sqrt()
+                } else {
+                    q
+                };
+                (q, pl, through.min(q))
+            }
+        };
+        self.assemble(Parts {
+            p,
+            f,
+            p_l,
+            q_s,
+            leak_s,
+            q_l,
+            leak_l: self.qth_l - q_l,
+            q_l_sys: 0.0,
+            q_l_tank: q_l,
+            back_leak: 0.0,
+            cv_loss: 0.0,
+            uv_loss: p_l * q_uv,
+            large_relief_loss: p_l * (q_l - q_uv),
+        })
+    }
+
+    /// The operating point from its flows and the losses of the check and
+    /// unloader; relief, torque and the rest of the balance are common.
+    fn assemble(&self, x: Parts) -> PumpPoint {
+        let Parts {
+            p,
+            f,
+            p_l,
+            q_s,
+            leak_s,
+            q_l,
+            leak_l,
+            q_l_sys,
+            q_l_tank,
+            back_leak,
+            cv_loss,
+            uv_loss,
+            large_relief_loss,
+        } = x;
+        let d = &self.design;
+        let q_pump = (q_s + q_l_sys).max(0.0);
         let r = self.relief_fraction(p);
         let q_relief = r * q_pump;
         let q_out = q_pump - q_relief;
@@ -331,22 +517,14 @@ impl Circuit {
         let torque = t_l + t_s;
         let shaft_power = torque * self.omega;
         // Shaft = mechanical + p_L·Q_th,L + p·Q_th,S; the hydraulic terms
-        // split exactly into leakage, check, unloader, relief and output.
-        // A back-leak crosses from p to tank: all of p·Q_leak is lost, booked
-        // under the check valve (its effect on p_bp is neglected).
-        // Across the unloader band the blended p_L can fall below p; the
-        // check valve then costs nothing and the unloader carries the whole
-        // p_L·Q_L − p·f·Q_L (≥ 0 because p_L ≥ f·p), so no loss is negative.
-        let (cv_loss, uv_loss) = if p_l >= p {
-            ((p_l - p) * (f * q_l), p_l * (q_l - f * q_l))
-        } else {
-            (0.0, (p_l - f * p) * q_l)
-        };
+        // split exactly into leakage, check, unloader, large-side relief,
+        // relief and output.
         let losses = PumpLosses {
             mechanical: shaft_power - self.qth_l * p_l - self.qth_s * p,
             leakage: leak_l * p_l + leak_s * p,
-            check_valve: cv_loss + back_leak * p,
+            check_valve: cv_loss,
             unloader: uv_loss,
+            large_relief: large_relief_loss,
             relief: p * q_relief,
         };
         let regime = if p >= self.p_rf {
@@ -438,14 +616,40 @@ pub struct PumpLosses {
     pub check_valve: f64,
     /// Large pump's flow dumped through the unloading valve.
     pub unloader: f64,
+    /// Large pump's flow over its own relief (or through whatever gives)
+    /// when dead-headed behind a stuck-shut check valve.
+    pub large_relief: f64,
     /// Flow over the relief valve.
     pub relief: f64,
+}
+
+/// Flows and check/unloader losses of one operating point, before the
+/// common relief, torque and power terms.
+struct Parts {
+    p: f64,
+    f: f64,
+    p_l: f64,
+    q_s: f64,
+    leak_s: f64,
+    q_l: f64,
+    leak_l: f64,
+    q_l_sys: f64,
+    q_l_tank: f64,
+    back_leak: f64,
+    cv_loss: f64,
+    uv_loss: f64,
+    large_relief_loss: f64,
 }
 
 impl PumpLosses {
     /// Sum of all losses (W).
     pub fn total(&self) -> f64 {
-        self.mechanical + self.leakage + self.check_valve + self.unloader + self.relief
+        self.mechanical
+            + self.leakage
+            + self.check_valve
+            + self.unloader
+            + self.large_relief
+            + self.relief
     }
 }
 

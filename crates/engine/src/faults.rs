@@ -13,13 +13,15 @@ use crate::units::Quantity;
 /// Highest relief scale a fault may carry (a relief set 50 % high).
 pub const RELIEF_SCALE_MAX: f64 = 1.5;
 
-/// How a stuck unloading valve sits.
+/// How a stuck valve (the unloading valve or the check valve) sits.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize)]
 #[serde(rename_all = "snake_case")]
 pub enum Stuck {
-    /// Always open: the large pump never reaches the system.
+    /// Always open. Unloader: the large pump never reaches the system.
+    /// Check valve: the large-pump outlet is the system node.
     Open,
-    /// Always shut: the large pump never unloads.
+    /// Always shut. Unloader: the large pump never unloads. Check valve:
+    /// nothing from the large pump reaches the system.
     Closed,
 }
 
@@ -42,6 +44,10 @@ pub struct Faults {
     /// Unloading valve stuck open or shut.
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub unloader_stuck: Option<Stuck>,
+    /// Check valve stuck open or shut (derived, modelling choice: see
+    /// [`crate::circuit::Circuit::pump_point`]).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub check_stuck: Option<Stuck>,
     /// Relief valve actually set to this multiple of its design settings
     /// (below 1: set low or leaking; above 1: set high), 0.05 to 1.5.
     #[serde(default, skip_serializing_if = "Option::is_none")]
@@ -64,6 +70,8 @@ pub(crate) struct FaultEffects {
     /// Open fraction forced on the unloader, when stuck.
     pub(crate) unloader_stuck_open_fraction: Option<f64>,
     pub(crate) relief_scale: Option<f64>,
+    /// How the check valve is stuck, if it is.
+    pub(crate) check_stuck: Option<Stuck>,
 }
 
 impl FaultEffects {
@@ -79,6 +87,7 @@ impl FaultEffects {
                 Stuck::Closed => 0.0,
             }),
             relief_scale: f.relief_scale,
+            check_stuck: f.check_stuck,
         }
     }
 }

@@ -115,6 +115,13 @@ pub enum WarningKind {
     },
     /// Nothing limits the large pump's pressure if the check sticks shut.
     LargePumpUnprotected,
+    /// A (simulated) stuck-shut check valve dead-heads the large pump and
+    /// nothing limits its outlet pressure.
+    LargePumpDeadHeaded {
+        /// The outlet pressure the model takes (Pa), where leakage eats the
+        /// pump's flow, capped.
+        outlet_pa: f64,
+    },
     /// V_L/V_S outside 3–20.
     PumpRatio {
         /// The ratio.
@@ -211,6 +218,10 @@ impl Warning {
                 area_ratio, p(units, intensified_pa / area_ratio), p(units, intensified_pa), p(units, rating_pa)
             ),
             LargePumpUnprotected => "Nothing limits the large pump's outlet pressure if the check valve sticks shut. Fit a small relief on the large-pump side, or an unloader with a relief function.".into(),
+            LargePumpDeadHeaded { outlet_pa } => format!(
+                "Simulated fault: the check valve is stuck shut and nothing limits the large pump's outlet, so it is dead-headed while the unloader is shut; the model puts its outlet at {} (where its leakage eats its flow, or {}× the relief full flow). On a machine this bursts hoses or seals: stop at once and relieve pressure safely, per the machine's procedure and ISO 4413.",
+                p(units, outlet_pa), crate::circuit::DEAD_HEAD_CAP_FACTOR
+            ),
             PumpRatio { ratio } => format!(
                 "Pump ratio V_L/V_S = {ratio:.1} is outside the usual 3 to 20 (rule of thumb). Check that the pressing speed and the motor size still suit the machine."
             ),
@@ -352,6 +363,14 @@ pub fn warnings(
     }
     if d.ratings.large_pump_relief_pa.is_none() {
         add(LargePumpUnprotected, "ratings.large_pump_relief_pa");
+        if c.check_stuck() == Some(crate::faults::Stuck::Closed) {
+            add(
+                LargePumpDeadHeaded {
+                    outlet_pa: c.large_dead_head_pa(),
+                },
+                "faults.check_stuck",
+            );
+        }
     }
     let ratio = d.large_pump.displacement_m3 / d.small_pump.displacement_m3;
     if ratio < PUMP_RATIO_RANGE.0 || ratio > PUMP_RATIO_RANGE.1 {

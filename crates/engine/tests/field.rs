@@ -203,6 +203,22 @@ const SCENARIOS: &[(CauseId, &str, Inject)] = &[
             })
         },
     ),
+    (CauseId::CheckStuckOpen, "check valve stuck open", |d, _| {
+        with(d, |d| d.faults.check_stuck = Some(Stuck::Open))
+    }),
+    (CauseId::CheckStuckShut, "check valve stuck shut", |d, _| {
+        with(d, |d| d.faults.check_stuck = Some(Stuck::Closed))
+    }),
+    (
+        CauseId::CheckStuckShut,
+        "check valve stuck shut, no large-side relief",
+        |d, _| {
+            with(d, |d| {
+                d.faults.check_stuck = Some(Stuck::Closed);
+                d.ratings.large_pump_relief_pa = None;
+            })
+        },
+    ),
     (CauseId::ReliefLow, "relief at 85 %", |d, _| {
         with(d, |d| d.faults.relief_scale = Some(0.85))
     }),
@@ -291,6 +307,8 @@ rule_tests! {
     rule_relief_low => CauseId::ReliefLow,
     rule_relief_high => CauseId::ReliefHigh,
     rule_hunting => CauseId::Hunting,
+    rule_check_stuck_open => CauseId::CheckStuckOpen,
+    rule_check_stuck_shut => CauseId::CheckStuckShut,
 }
 
 #[test]
@@ -626,4 +644,130 @@ fn synthesised_readings_of_a_healthy_press_match_the_model() {
     let press = c.motion(Motion::Pressing).unwrap();
     assert!(rel(shaft, press.pump.shaft_power_w) < 1e-9);
     let _ = LPM;
+}
+
+// ---------------------------------------------------------------------------
+// Stuck check valve: the derived model (modelling choice, see
+// `Circuit::pump_point`) shows what the trade's symptom table describes
+// (common practice, no source): stuck open, the system stalls near the
+// unloading setting; stuck shut, the large-pump outlet rises far above the
+// system while the unloader is shut.
+// ---------------------------------------------------------------------------
+
+#[test]
+fn stuck_open_check_stalls_near_the_unloading_setting() {
+    for ex in EXAMPLES {
+        let d = (ex.build)();
+        let c = Circuit::new(&with(&d, |d| d.faults.check_stuck = Some(Stuck::Open)))
+            .unwrap();
+        let stall = stall_pressure(&c);
+        // Within the unloader's band, far below the relief.
+        assert!(
+            stall >= c.unloading_pa() && stall <= c.unloading_full_pa(),
+            "{}: stall {stall} Pa, band {}..{} Pa",
+            ex.name,
+            c.unloading_pa(),
+            c.unloading_full_pa()
+        );
+        assert!(stall < 0.9 * c.relief_cracking_pa(), "{}", ex.name);
+        // Below the unloader the outlet is the system node, and nothing escapes.
+        let pp = c.pump_point(0.5 * c.unloading_pa()).unwrap();
+        assert_eq!(pp.large_outlet_pa, pp.pressure_pa);
+        assert_eq!(pp.large_to_tank_m3s, 0.0);
+        // Past the stall point all delivery escapes through the unloader.
+        let pp = c.pump_point(c.unloading_full_pa()).unwrap();
+        assert_eq!(pp.out_flow_m3s, 0.0, "{}", ex.name);
+        assert!(
+            pp.check_back_leak_m3s > 0.0,
+            "{}: small pump's oil escapes",
+            ex.name
+        );
+    }
+}
+
+#[test]
+fn stuck_shut_check_dead_heads_the_large_pump() {
+    for ex in EXAMPLES {
+        let d = (ex.build)();
+        for relief in [Some(1.2 * d.unloading_valve.setting_pa), None] {
+            let faulty = with(&d, |d| {
+                d.faults.check_stuck = Some(Stuck::Closed);
+                d.ratings.large_pump_relief_pa = relief;
+            });
+            let c = Circuit::new(&faulty).unwrap();
+            let healthy =
+                Circuit::new(&with(&faulty, |d| d.faults.check_stuck = None)).unwrap();
+            let p = 0.5 * c.unloading_pa();
+            let pp = c.pump_point(p).unwrap();
+            assert_eq!(pp.large_to_system_m3s, 0.0);
+            // The system gets the small pump's flow alone.
+            let sound = healthy.pump_point(p).unwrap();
+            assert!(pp.out_flow_m3s < sound.out_flow_m3s - 0.5 * sound.large_flow_m3s);
+            match relief {
+                Some(r) => assert_eq!(pp.large_outlet_pa, r, "{}", ex.name),
+                None => {
+                    // Leakage eats the flow at Q_th/K, capped at 3·p_rf.
+                    assert!(pp.large_outlet_pa > 1.5 * c.relief_full_pa(), "{}", ex.name);
+                    assert!(
+                        pp.large_outlet_pa <= 3.0 * c.relief_full_pa() * (1.0 + 1e-12)
+                    );
+                    let w = evaluate(&faulty).unwrap().warnings;
+                    assert!(
+                        w.iter().any(|w| matches!(
+                            w.kind,
+                            warnings::WarningKind::LargePumpDeadHeaded { .. }
+                        )),
+                        "{}: {w:?}",
+                        ex.name
+                    );
+                }
+            }
+            assert!(pp.losses.large_relief > 0.0 || pp.large_flow_m3s == 0.0);
+            // Once the unloader is open the large pump is unloaded as usual.
+            let pp = c.pump_point(c.unloading_full_pa()).unwrap();
+            let back = healthy.pump_point(c.unloading_full_pa()).unwrap();
+            assert!(
+                (pp.large_outlet_pa - back.large_outlet_pa).abs() < 1.0,
+                "{}",
+                ex.name
+            );
+        }
+    }
+}
+
+#[test]
+fn check_stuck_rules_stay_quiet_on_healthy_and_other_faults() {
+    for ex in EXAMPLES {
+        let d = (ex.build)();
+        let healthy = Circuit::new(&d).unwrap();
+        let r = synthesize_readings(&healthy);
+        let dg = diagnose(&healthy, &r).unwrap();
+        for id in [CauseId::CheckStuckOpen, CauseId::CheckStuckShut] {
+            assert!(dg.finding(id).is_none(), "{} healthy: {id:?}", ex.name);
+        }
+        for (cause, what, inject) in SCENARIOS {
+            if matches!(cause, CauseId::CheckStuckOpen | CauseId::CheckStuckShut) {
+                continue;
+            }
+            let faulty = Circuit::new(&inject(&d, &healthy)).unwrap();
+            let dg = diagnose(&healthy, &synthesize_readings(&faulty)).unwrap();
+            let top = dg.findings.first().map(|f| f.cause);
+            assert!(
+                !matches!(top, Some(CauseId::CheckStuckOpen | CauseId::CheckStuckShut)),
+                "{} {what}: ranked {top:?}",
+                ex.name
+            );
+        }
+    }
+}
+
+#[test]
+fn stuck_shut_caution_says_stop_and_defers_to_iso_4413() {
+    let r = RULES
+        .iter()
+        .find(|r| r.id == CauseId::CheckStuckShut)
+        .unwrap();
+    assert!(r.caution.starts_with("Stop the machine at once"));
+    assert!(r.caution.contains("Relieve the pressure"));
+    assert!(r.caution.contains("ISO 4413"));
 }

@@ -73,6 +73,22 @@ fn valid_design() -> impl Strategy<Value = Design> {
         .prop_map(|u| design_from(&u))
 }
 
+/// A valid design with the check valve stuck open or shut, with or
+/// without a relief on the large-pump side.
+fn stuck_check_design() -> impl Strategy<Value = Design> {
+    (
+        valid_design(),
+        any::<bool>(),
+        prop::option::of(0.1..2.0_f64),
+    )
+        .prop_map(|(mut d, open, relief)| {
+            d.faults.check_stuck = Some(if open { Stuck::Open } else { Stuck::Closed });
+            d.ratings.large_pump_relief_pa =
+                relief.map(|x| x * d.relief_valve.full_flow_pa);
+            d
+        })
+}
+
 /// Walks a JSON value; every number must be finite. serde_json writes a
 /// non-finite f64 as `null`, so `null` is allowed only for the settings
 /// check's optional pressures (None when a motion is not reachable).
@@ -139,6 +155,7 @@ proptest! {
                 ("leakage", l.leakage),
                 ("check valve", l.check_valve),
                 ("unloader", l.unloader),
+                ("large-side relief", l.large_relief),
                 ("relief", l.relief),
             ] {
                 prop_assert!(v >= -1e-9 * pp.shaft_power_w, "{name} loss {v} W < 0");
@@ -354,5 +371,65 @@ fn every_field_at_once_with_nan() {
     assert!(errs.0.len() >= FIELDS.len(), "{} errors", errs.0.len());
     for s in FIELDS {
         assert!(errs.for_field(s.path).is_some(), "no error for {}", s.path);
+    }
+}
+
+// A stuck check valve (derived model, `Circuit::pump_point`): the solvers
+// rely on delivery never rising with pressure, and the power split must
+// still close with every loss non-negative.
+proptest! {
+    #![proptest_config(Config { cases: 200, ..Config::default() })]
+
+    #[test]
+    fn stuck_check_delivery_never_rises_and_balance_closes(d in stuck_check_design()) {
+        let c = Circuit::new(&d).expect("valid");
+        let p_max = c.relief_full_pa();
+        let mut last = f64::INFINITY;
+        for i in 0..=256 {
+            let p = p_max * f64::from(i) / 256.0;
+            let pp = c.pump_point(p).expect("in range");
+            let q = pp.out_flow_m3s;
+            prop_assert!(q <= last * (1.0 + 1e-12), "Q rises at {p} Pa: {last} -> {q}");
+            prop_assert!(q >= 0.0);
+            last = q;
+            let l = pp.losses;
+            for (name, v) in [
+                ("mechanical", l.mechanical),
+                ("leakage", l.leakage),
+                ("check valve", l.check_valve),
+                ("unloader", l.unloader),
+                ("large-side relief", l.large_relief),
+                ("relief", l.relief),
+            ] {
+                prop_assert!(v >= -1e-9 * pp.shaft_power_w, "{name} loss {v} W < 0 at {p} Pa");
+            }
+            prop_assert!(
+                rel_close(pp.shaft_power_w, pp.hydraulic_out_w + l.total(), 1e-9),
+                "at {p} Pa: shaft {} W, out {} W + losses {} W",
+                pp.shaft_power_w, pp.hydraulic_out_w, l.total()
+            );
+            match d.faults.check_stuck {
+                Some(Stuck::Open) => prop_assert_eq!(pp.large_outlet_pa, p),
+                _ => prop_assert_eq!(pp.large_to_system_m3s, 0.0),
+            }
+        }
+        prop_assert_eq!(last, 0.0, "relief full flow passes all delivery");
+    }
+
+    #[test]
+    fn stuck_check_designs_evaluate_and_motions_solve(d in stuck_check_design()) {
+        let report = evaluate(&d).map_err(|e| TestCaseError::fail(e.to_string()))?;
+        let json = serde_json::to_value(&report).expect("serialisable");
+        let mut bad = Vec::new();
+        non_finite_paths(&json, "report", &mut bad);
+        prop_assert!(bad.is_empty(), "non-finite outputs: {bad:?}");
+        let c = Circuit::new(&d).expect("valid");
+        for m in Motion::ALL {
+            let Ok(mp) = c.motion(m) else { continue };
+            let p = mp.pump.pressure_pa;
+            prop_assert!(mp.residual_pa.abs() <= 1e-9 * p.max(1.0),
+                "{m:?}: residual {} Pa at {p} Pa", mp.residual_pa);
+            prop_assert!(mp.speed_ms >= 0.0);
+        }
     }
 }

@@ -951,7 +951,7 @@ fn node_of(pp: &PumpPoint, dt: f64, x: f64, v: Option<f64>, chamber: f64) -> Nod
     r[DT] = dt;
     r[EIN] = pp.shaft_power_w * dt;
     r[RELIEF] = l.relief * dt;
-    r[UNLOAD] = l.unloader * dt;
+    r[UNLOAD] = (l.unloader + l.large_relief) * dt;
     r[VALVES] = l.check_valve * dt;
     r[PUMPS] = (l.mechanical + l.leakage) * dt;
     r[P2] = pp.shaft_power_w * pp.shaft_power_w * dt;

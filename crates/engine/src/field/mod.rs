@@ -348,8 +348,11 @@ pub struct ComponentStates {
     pub large_to_tank_m3s: f64,
     /// Small pump delivery to the system (m³/s).
     pub small_to_system_m3s: f64,
-    /// The check valve passes flow from the large pump to the system.
+    /// The check valve passes flow from the large pump to the system
+    /// (always when it is stuck open, never when stuck shut).
     pub check_open: bool,
+    /// How the check valve is stuck, an injected fault.
+    pub check_stuck: Option<crate::faults::Stuck>,
     /// Flow leaking back through a faulty check (m³/s).
     pub check_back_leak_m3s: f64,
     /// How far the unloader is open, 0 shut to 1 fully open.
@@ -399,7 +402,12 @@ pub fn component_states(c: &Circuit, p: f64) -> Result<ComponentStates, SolveErr
         large_to_system_m3s: to_sys,
         large_to_tank_m3s: pp.large_flow_m3s - to_sys,
         small_to_system_m3s: pp.small_flow_m3s,
-        check_open: to_sys > tiny,
+        check_open: match c.check_stuck() {
+            Some(crate::faults::Stuck::Open) => true,
+            Some(crate::faults::Stuck::Closed) => false,
+            None => to_sys > tiny,
+        },
+        check_stuck: c.check_stuck(),
         check_back_leak_m3s: pp.check_back_leak_m3s,
         unloader_open_fraction: pp.unloader_open_fraction,
         relief_passing: pp.relief_flow_m3s > tiny,

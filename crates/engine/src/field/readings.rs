@@ -375,11 +375,19 @@ pub(crate) fn check(c: &Circuit, r: &Readings) -> (Checked, Vec<FieldError>) {
     });
     let gauge_max =
         c.relief_full_pa().max(out.stall_pa.unwrap_or(0.0)) * (1.0 + GAUGE_MARGIN);
-    let gauge = |k: &mut Checker, path: &'static str, v: f64| -> bool {
+    // The large-pump outlet is not protected by the system relief: behind a
+    // stuck-shut check it can read up to where that side gives (its own
+    // relief, or the model's cap when it has none or that relief fails).
+    let large_max = gauge_max.max(
+        c.large_dead_head_pa()
+            .max(crate::circuit::DEAD_HEAD_CAP_FACTOR * c.relief_full_pa())
+            * (1.0 + GAUGE_MARGIN),
+    );
+    let gauge_to = |k: &mut Checker, path: &'static str, v: f64, max: f64| -> bool {
         if !k.non_negative(path, Quantity::Pressure, v) {
             return false;
         }
-        if v > gauge_max {
+        if v > max {
             k.push(
                 path,
                 v,
@@ -391,6 +399,8 @@ pub(crate) fn check(c: &Circuit, r: &Readings) -> (Checked, Vec<FieldError>) {
         }
         true
     };
+    let gauge =
+        |k: &mut Checker, path: &'static str, v: f64| gauge_to(k, path, v, gauge_max);
 
     let stroke = d.cylinder.stroke_m;
     let area = c.cap_area();
@@ -454,10 +464,10 @@ pub(crate) fn check(c: &Circuit, r: &Readings) -> (Checked, Vec<FieldError>) {
         gauge(&mut k, "unloading_observed_pa", v)
     });
     out.large_approach_pa = opt(r.large_outlet_approach_pa, &mut count, |v| {
-        gauge(&mut k, "large_outlet_approach_pa", v)
+        gauge_to(&mut k, "large_outlet_approach_pa", v, large_max)
     });
     out.large_pressing_pa = opt(r.large_outlet_pressing_pa, &mut count, |v| {
-        gauge(&mut k, "large_outlet_pressing_pa", v)
+        gauge_to(&mut k, "large_outlet_pressing_pa", v, large_max)
     });
     out.tank_flow_m3s = opt(r.unloader_tank_flow_pressing_m3s, &mut count, |v| {
         k.range(

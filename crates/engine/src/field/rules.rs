@@ -36,6 +36,10 @@ pub enum CauseId {
     ReliefHigh,
     /// The fast motion needs nearly the unloading pressure: the valve hunts.
     Hunting,
+    /// Check valve stuck open: the system drains through the open unloader.
+    CheckStuckOpen,
+    /// Check valve stuck shut: the large pump is dead-headed.
+    CheckStuckShut,
 }
 
 /// What one reading says about one cause, with its numbers (SI).
@@ -565,7 +569,9 @@ fn unloader_high_or_shut(x: &Context) -> Option<Scored> {
     let point = s
         .unloading_dev
         .map_or(0.0, |d| ramp(d, UNLOADING_TOL, 0.40));
-    let outlet = s.large_outlet_rise.map_or(0.0, |d| ramp(d, 0.2, 0.7));
+    // The outlet at system pressure is also what a stuck-open check shows.
+    let outlet = s.large_outlet_rise.map_or(0.0, |d| ramp(d, 0.2, 0.7))
+        * (1.0 - check_open_strength(x));
     let tank = s.tank_short.map_or(0.0, |d| ramp(d, 0.2, 0.7));
     let slow = s.slow_excess_of_large.map_or(0.0, |d| ramp(d, 0.15, 0.6));
     let motor = 0.7 * s.motor_dev.map_or(0.0, |d| ramp(d, 0.25, 1.0));
@@ -637,7 +643,9 @@ fn unloader_high_or_shut(x: &Context) -> Option<Scored> {
 fn relief_low(x: &Context) -> Option<Scored> {
     let d = x.s.stall_dev?;
     let u = x.b.relief?;
-    let score = ramp(-d, GAUGE_TOL, 0.20);
+    // A stall near the unloading setting with the large-pump outlet at
+    // system pressure is the check valve, not the relief.
+    let score = ramp(-d, GAUGE_TOL, 0.20) * (1.0 - 0.7 * check_open_strength(x));
     Some(Scored {
         score,
         evidence: vec![ev(
@@ -723,11 +731,145 @@ fn hunting(x: &Context) -> Option<Scored> {
     Some(out)
 }
 
+/// How clearly the readings show a stuck-open check valve: the system
+/// stalls near the unloading setting although the relief is set far higher,
+/// and the large-pump outlet follows system pressure while pressing.
+/// Returns (near, follow, stall, system pressure in pressing); `None`
+/// without a stall reading or with the relief close to the unloader.
+fn check_open_signals(x: &Context) -> Option<(f64, Option<f64>, f64, f64)> {
+    let stall = x.r.stall_pa?;
+    let p_u = x.c.unloading_pa();
+    let p_rf = x.c.relief_full_pa();
+    if x.c.relief_cracking_pa() < 1.2 * x.c.unloading_full_pa() || p_u <= 0.0 {
+        return None;
+    }
+    // Where the stall sits from the unloading setting (0) to the relief (1).
+    let t = (stall - p_u) / (p_rf - p_u);
+    let near = (1.0 - ramp(t, 0.15, 0.5)) * (1.0 - ramp((p_u - stall) / p_u, 0.1, 0.3));
+    let p_press = x.r.slow.and_then(|s| s.system_pa).unwrap_or(stall);
+    let follow =
+        x.r.large_pressing_pa
+            .filter(|_| p_press > 0.0)
+            .map(|pl| 1.0 - ramp((pl - p_press).abs() / p_press, 2.0 * GAUGE_TOL, 0.25));
+    Some((near, follow, stall, p_press))
+}
+
+/// 0 ..= 1: how strongly the readings point to a stuck-open check valve.
+fn check_open_strength(x: &Context) -> f64 {
+    check_open_signals(x).map_or(0.0, |(near, follow, _, _)| near * follow.unwrap_or(0.6))
+}
+
+fn check_stuck_open(x: &Context) -> Option<Scored> {
+    let (near, follow, stall, p_press) = check_open_signals(x)?;
+    let mut out = Scored {
+        score: near * follow.unwrap_or(0.6),
+        ..Scored::default()
+    };
+    out.evidence.push(Evidence {
+        against: "against an unloading setting of",
+        ..ev(
+            "stall_pa",
+            Quantity::Pressure,
+            stall,
+            x.c.unloading_pa(),
+            if near > 0.0 {
+                "the system stalls near the unloading setting although the relief is set far higher"
+            } else {
+                "the system rises well past the unloading setting"
+            },
+        )
+    });
+    match (x.r.large_pressing_pa, follow) {
+        (Some(pl), Some(f)) => out.evidence.push(Evidence {
+            against: "against the system gauge of",
+            ..ev(
+                "large_outlet_pressing_pa",
+                Quantity::Pressure,
+                pl,
+                p_press,
+                if f > 0.0 {
+                    "the large-pump outlet follows system pressure while pressing: the check is not holding"
+                } else {
+                    "the large-pump outlet is apart from system pressure: the check holds"
+                },
+            )
+        }),
+        _ => out.confirm_with.push("large_outlet_pressing_pa"),
+    }
+    Some(out)
+}
+
+fn check_stuck_shut(x: &Context) -> Option<Scored> {
+    let pl = x.r.large_approach_pa?;
+    let p_sys =
+        x.r.system_approach_pa
+            .or(x.r.fast.and_then(|s| s.system_pa))
+            .unwrap_or(x.b.fast_pressure_pa);
+    // What a sound check needs: system pressure plus its drop at the large
+    // pump's full flow (independent of any fault in the design).
+    let expected = p_sys + x.c.check_drop(x.c.large_theoretical_flow());
+    let p_u = x.c.unloading_pa().max(f64::MIN_POSITIVE);
+    let outlet = ramp((pl - expected) / p_u, 0.15, 0.5);
+    let mut out = Scored::default();
+    out.evidence.push(ev(
+        "large_outlet_approach_pa",
+        Quantity::Pressure,
+        pl,
+        expected,
+        if outlet > 0.0 {
+            "far above system pressure: the large pump is pushing against a shut check"
+        } else {
+            "no higher than the check needs"
+        },
+    ));
+    let slow = match x.s.large_share {
+        Some(share) => {
+            let slow = ramp(1.0 - share, 0.5, 0.9);
+            out.evidence.push(ev(
+                "large_pump.delivered",
+                Quantity::Flow,
+                x.s.large_found,
+                x.s.large_expected,
+                if slow > 0.0 {
+                    "the approach runs at about the small pump's speed"
+                } else {
+                    "the large pump reaches the system"
+                },
+            ));
+            Some(slow)
+        }
+        None => {
+            out.confirm_with.push("fast_stroke");
+            None
+        }
+    };
+    out.score = outlet * slow.map_or(0.8, |s| 0.6 + 0.4 * s);
+    Some(out)
+}
+
+const STOP_DEAD_HEAD: &str = "Stop the machine at once: a dead-headed pump can burst a hose, fitting or seal, and an oil jet injures. Relieve the pressure on both sides of the check valve safely, lock out and verify zero on a gauge before investigating, following the machine's own procedure and ISO 4413. Do not run it again until the large-pump side has a relief.";
+
 const ADJUST: &str = "Adjust a valve only with a gauge fitted, starting from the backed-off position, in small steps, with guards in place and hands clear of the tooling.";
 
 /// The rule table, in the order ties are broken (most likely first, brief
 /// §8.3).
 pub const RULES: &[Rule] = &[
+    Rule {
+        id: CauseId::CheckStuckShut,
+        cause: "Check valve stuck shut: the large pump is dead-headed and its flow never reaches the system",
+        needs: &["large_outlet_approach_pa", "fast_stroke"],
+        score: check_stuck_shut,
+        next_check: "Do not run the machine to check this. With it stopped and safe, compare the large-pump outlet gauge reading with the system gauge: far above system pressure during the approach confirms it. Inspect the check valve for a jammed poppet or a wrong-way fitting, and fit a relief on the large-pump side.",
+        caution: STOP_DEAD_HEAD,
+    },
+    Rule {
+        id: CauseId::CheckStuckOpen,
+        cause: "Check valve stuck open: system oil escapes to tank through the open unloader",
+        needs: &["stall_pa", "large_outlet_pressing_pa"],
+        score: check_stuck_open,
+        next_check: "Read the large-pump outlet gauge and the system gauge together while pressing: if the two read the same, the check is not holding. Then inspect the check valve's poppet, seat and spring.",
+        caution: "The system can still hold pressure when the check is opened: lock out, relieve the pressure and verify zero on a gauge before opening the valve. Do not raise the unloading or relief setting to get more force; it does not cure a check that stays open.",
+    },
     Rule {
         id: CauseId::UnloaderLowOrOpen,
         cause: "Unloading valve set too low or stuck open: the large pump is dumped during the approach",
