@@ -319,14 +319,9 @@ pub fn diagram_state(s: &ComponentStates, units: UnitSystem) -> DiagramState {
         kneepoint_engine::faults::Stuck::Closed => "stuck-shut",
     });
     let check_words = match check {
-        _ if check_stuck == Some("stuck-open") => {
-            "stuck open (fault): the system drains through the unloader once it opens"
-                .to_string()
-        }
-        _ if check_stuck == Some("stuck-shut") => {
-            "stuck shut (fault): nothing from the large pump reaches the system"
-                .to_string()
-        }
+        // Short to fit beside the symbol: the ball's position shows which
+        // way it is stuck, and the words below say so.
+        _ if check_stuck.is_some() => "stuck".to_string(),
         CheckState::Open => "open".to_string(),
         CheckState::Closed if check_leaking => "closed, leaking back".to_string(),
         CheckState::Closed => "closed".to_string(),
@@ -467,7 +462,11 @@ pub fn diagram_state(s: &ComponentStates, units: UnitSystem) -> DiagramState {
             q(tank_line),
             p(s.large_outlet_pa)
         ),
-        format!("Check valve: {check_words}."),
+        match check_stuck {
+            Some("stuck-open") => "Check valve: stuck open (simulated fault); the system drains to tank through the unloader once it opens.".to_string(),
+            Some(_) => "Check valve: stuck shut (simulated fault); nothing from the large pump reaches the system, and while the unloader is shut the large pump is dead-headed.".to_string(),
+            None => format!("Check valve: {check_words}."),
+        },
         format!(
             "Unloading valve: {unloader_words}{}.",
             if unloader == UnloaderState::Shut {
@@ -592,8 +591,11 @@ mod tests {
     #[test]
     fn annotations_carry_units_stay_inside_and_apart() {
         for units in [UnitSystem::Metric, UnitSystem::Us] {
-            for e in EXAMPLES {
-                let d = (e.build)();
+            for (e, stuck) in EXAMPLES.iter().flat_map(|e| {
+                [None, Some(Stuck::Open), Some(Stuck::Closed)].map(|s| (e, s))
+            }) {
+                let mut d = (e.build)();
+                d.faults.check_stuck = stuck;
                 let c = Circuit::new(&d).unwrap();
                 for p in [0.0, c.unloading_pa() * 1.02, c.relief_full_pa()] {
                     let s = diagram_state(&component_states(&c, p).unwrap(), units);
