@@ -500,16 +500,23 @@ pub fn PowerLegend() -> impl IntoView {
 /// out in pixels. Starts at 640 px until measured.
 pub fn use_box_width(node: NodeRef<leptos::html::Div>) -> RwSignal<f64> {
     let width = RwSignal::new(640.0);
+    // `try_` access: a frame or resize may arrive after the view that owns
+    // these signals was closed (switching views, rotating a tablet).
     let remeasure = move || {
-        let Some(el) = node.get_untracked() else {
+        let Some(el) = node.try_get_untracked().flatten() else {
             return;
         };
         let w = f64::from(el.client_width());
-        if w > 0.0 && (w - width.get_untracked()).abs() >= 1.0 {
-            width.set(w);
+        match width.try_get_untracked() {
+            Some(old) if w > 0.0 && (w - old).abs() >= 1.0 => {
+                width.try_set(w);
+            }
+            _ => {}
         }
     };
     request_animation_frame(remeasure);
-    let _ = window_event_listener(leptos::ev::resize, move |_| remeasure());
+    // The listener lives on the window: remove it with the view.
+    let listener = window_event_listener(leptos::ev::resize, move |_| remeasure());
+    on_cleanup(move || listener.remove());
     width
 }

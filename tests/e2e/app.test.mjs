@@ -144,6 +144,29 @@ test('a link pasted into the open page loads its design and opens the view it na
   });
 });
 
+test('switching views and then turning the tablet leaves no error behind', async () => {
+  // Regression: a closed view's resize handler used to read disposed signals.
+  await withApp({ width: 1024, height: 768 }, async (b, page) => {
+    await openApp(page);
+    await page.evaluate(() => {
+      location.hash = '#v=1&u=metric&view=cycle';
+    });
+    await page.waitForSelector('[data-testid="timeline"] svg', { timeout: 10000 });
+    await page.evaluate(() => {
+      location.hash = '#v=1&u=metric&view=field';
+    });
+    await page.waitForSelector('[data-testid="field-verdict"]', { timeout: 10000 });
+    await page.setViewportSize({ width: 768, height: 1024 });
+    await page.waitForTimeout(300);
+    await page.evaluate(() => {
+      location.hash = '#v=1&u=metric&view=circuit';
+    });
+    await page.waitForSelector('[data-testid="staircase-svg"] .curve-flow', { timeout: 10000 });
+    await page.setViewportSize({ width: 1024, height: 768 });
+    await page.waitForTimeout(300);
+  });
+});
+
 test('a broken or tampered link shows a notice and the demo design, and runs nothing', async () => {
   const b64 = (s) => Buffer.from(s).toString('base64url');
   const links = [
