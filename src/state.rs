@@ -102,6 +102,9 @@ pub struct AppState {
     pub outcome: Memo<Outcome>,
     /// The last good design and report, kept while the design is invalid.
     pub shown: Memo<Option<Good>>,
+    /// The validated circuit of the last good design, built once for every
+    /// view that needs it (duty cycle, diagram, machine check).
+    pub circuit: Memo<Option<Circuit>>,
     /// The duty cycle of the last good design (`None` before any).
     pub cycle: Memo<Option<CycleOutcome>>,
     /// The last cycle report that ran, kept while the cycle cannot run.
@@ -138,14 +141,11 @@ impl AppState {
             }),
             Err(_) => prev.cloned().flatten(),
         });
-        // Lazy: runs only while a view reads it.
-        let cycle = Memo::new(move |_| {
-            shown.with(|g| {
-                g.as_ref()
-                    .and_then(|g| Circuit::new(&g.design).ok())
-                    .map(|c| evaluate_cycle(&c))
-            })
+        let circuit = Memo::new(move |_| {
+            shown.with(|g| g.as_ref().and_then(|g| Circuit::new(&g.design).ok()))
         });
+        // Lazy: runs only while a view reads it.
+        let cycle = Memo::new(move |_| circuit.with(|c| c.as_ref().map(evaluate_cycle)));
         let cycle_shown = Memo::new(
             move |prev: Option<&Option<CycleReport>>| match cycle.get() {
                 Some(Ok(r)) => Some(r),
@@ -160,6 +160,7 @@ impl AppState {
             design,
             outcome,
             shown,
+            circuit,
             cycle,
             cycle_shown,
             view: RwSignal::new(ViewId::Circuit),

@@ -9,7 +9,6 @@
 //! on each flow line, `data-pressure-pa` on the drawing.
 
 use kneepoint_engine::field::component_states;
-use kneepoint_engine::Circuit;
 use leptos::prelude::*;
 
 use crate::components::charts::Cursor;
@@ -301,10 +300,7 @@ pub fn CircuitDiagram(
         let cursor = use_context::<Cursor>();
         Signal::derive(move || cursor.and_then(|c| c.0.get()))
     });
-    let circuit = Memo::new(move |_| {
-        st.shown
-            .with(|g| g.as_ref().and_then(|g| Circuit::new(&g.design).ok()))
-    });
+    let circuit = st.circuit;
     let ds = Memo::new(move |_| {
         let units = st.units.get();
         let cursor = pressure.get();

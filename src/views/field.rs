@@ -543,8 +543,9 @@ fn DiagramControls(
     let limits = Memo::new(move |_| {
         st.shown.with(|g| {
             g.as_ref().map(|g| {
-                let c = Circuit::new(&g.design).ok();
-                let p_rf = c.as_ref().map_or(1.0, Circuit::relief_full_pa);
+                let p_rf = st
+                    .circuit
+                    .with(|c| c.as_ref().map_or(1.0, Circuit::relief_full_pa));
                 let at = |m: Motion| g.report.motion(m).map(|m| m.pump.pressure_pa);
                 (p_rf, at(Motion::Approach), at(Motion::Pressing))
             })
@@ -632,10 +633,7 @@ pub fn FieldView() -> impl IntoView {
         let _ = browser::storage_set(DRAFT_KEY, &draft_text(&d));
     });
     let parsed = Memo::new(move |_| form.with(Form::parse));
-    let circuit = Memo::new(move |_| {
-        st.shown
-            .with(|g| g.as_ref().and_then(|g| Circuit::new(&g.design).ok()))
-    });
+    let circuit = st.circuit;
     let diagnosis = Memo::new(move |_| {
         circuit.with(|c| {
             let c = c.as_ref()?;
