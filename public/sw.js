@@ -8,7 +8,9 @@ const CACHE = 'kneepoint-' + VERSION;
 self.addEventListener('install', (event) => {
   event.waitUntil(
     caches.open(CACHE)
-      .then((cache) => cache.addAll(ASSETS))
+      // 'reload': straight from the server, never an older copy held by
+      // the browser's HTTP cache.
+      .then((cache) => cache.addAll(ASSETS.map((a) => new Request(a, { cache: 'reload' }))))
       .then(() => self.skipWaiting()),
   );
 });

@@ -1,10 +1,12 @@
 // Trunk post-build hook (Trunk.toml): finishes the static site.
+// 0. Points the page at this build's bindings and main wasm module
+//    (scripts/build-wasm.sh names them with a build id).
 // 1. Writes the service worker's list of files and a version hash of them.
 // 2. Refuses a page with an inline script (the Content-Security-Policy
 //    allows none) or with an address on another site.
 // Usage: run by trunk with TRUNK_STAGING_DIR set, or `node
 // scripts/finish-dist.mjs dist` on a built site.
-import { readdirSync, readFileSync, writeFileSync, statSync } from 'node:fs';
+import { readdirSync, readFileSync, writeFileSync, statSync, rmSync } from 'node:fs';
 import { join, relative, sep } from 'node:path';
 import { createHash } from 'node:crypto';
 
@@ -13,6 +15,29 @@ const fail = (msg) => {
   console.error(`finish-dist: ${msg}`);
   process.exit(1);
 };
+
+const idPath = join(dir, '.kneepoint-build-id');
+let id;
+try {
+  id = readFileSync(idPath, 'utf8').trim();
+} catch {
+  fail('no .kneepoint-build-id: scripts/build-wasm.sh did not run');
+}
+if (!/^[0-9a-f]{16}$/.test(id)) fail(`bad build id '${id}'`);
+rmSync(idPath);
+{
+  const p = join(dir, 'index.html');
+  const page = readFileSync(p, 'utf8');
+  const named = page
+    // The rust link trunk was told to skip (index.html) has done its job.
+    .replace(/\s*<link data-trunk rel="rust"[^>]*>/, '')
+    .replaceAll('kneepoint.js"', `kneepoint-${id}.js"`)
+    .replaceAll('kneepoint_bg.wasm"', `kneepoint_bg-${id}.wasm"`);
+  if (!named.includes(`data-kneepoint-js="./kneepoint-${id}.js"`)) {
+    fail('index.html has no data-kneepoint-js="./kneepoint.js" to point at this build');
+  }
+  writeFileSync(p, named);
+}
 
 function walk(d) {
   return readdirSync(d).flatMap((name) => {

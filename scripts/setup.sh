@@ -2,13 +2,17 @@
 # Installs every tool the build and the tests need, only when it is missing.
 # One line per step; fails loudly with the reason.
 # Usage: scripts/setup.sh [web] [browser]
-#   web      wasm target, wasm-bindgen-cli, trunk, wasm-opt (npm binaryen)
+#   web      crates, wasm target, wasm-bindgen-cli, wasm-split-cli, trunk,
+#            wasm-opt (npm binaryen)
 #   browser  Debian chromium + chromedriver, npm packages (playwright-core, axe-core)
 set -euo pipefail
 cd "$(dirname "$0")/.."
 
 WASM_BINDGEN_VERSION=0.2.130
 TRUNK_VERSION=0.21.14
+# Splits the app's wasm at its #[lazy] functions (scripts/build-wasm.sh);
+# the same release as the wasm_split_helpers that leptos pins in Cargo.lock.
+WASM_SPLIT_VERSION=0.2.3
 export PATH="$HOME/.cargo/bin:$PWD/node_modules/.bin:$PATH"
 
 step() { printf 'setup: %-34s %s\n' "$1" "$2"; }
@@ -24,6 +28,14 @@ for a in "$@"; do
 done
 
 if [ "$want_web" = 1 ]; then
+  # Every build after this one runs --offline.
+  if cargo fetch --locked --offline >/dev/null 2>&1; then
+    step "crates (Cargo.lock)" "present"
+  else
+    step "crates (Cargo.lock)" "fetching"
+    cargo fetch --locked -q || fail "cargo fetch --locked"
+  fi
+
   if rustup target list --installed | grep -qx wasm32-unknown-unknown; then
     step "wasm32 target" "present"
   else
@@ -40,6 +52,17 @@ if [ "$want_web" = 1 ]; then
     # No --locked: the registry here lacks one version its lockfile pins.
     cargo install -q wasm-bindgen-cli --version "$WASM_BINDGEN_VERSION" --force \
       || fail "cargo install wasm-bindgen-cli $WASM_BINDGEN_VERSION"
+  fi
+
+  # wasm-split-cli has no --version; cargo's install list has it.
+  if command -v wasm-split-cli >/dev/null \
+     && cargo install --list | grep -qx "wasm_split_cli_support v$WASM_SPLIT_VERSION:"; then
+    step "wasm-split-cli $WASM_SPLIT_VERSION" "present"
+  else
+    step "wasm-split-cli $WASM_SPLIT_VERSION" "installing (about 2 min)"
+    cargo install -q --locked wasm_split_cli_support --version "$WASM_SPLIT_VERSION" \
+      --features build-binary --force \
+      || fail "cargo install --locked wasm_split_cli_support $WASM_SPLIT_VERSION"
   fi
 
   if command -v trunk >/dev/null \

@@ -17,6 +17,34 @@ use crate::views::circuit::CircuitView;
 use crate::views::cycle::CycleView;
 use crate::views::field::FieldView;
 
+// The duty-cycle and machine-check views are split out of the main wasm
+// and fetched the first time they open (`#[lazy]`, split at build time by
+// scripts/build-wasm.sh): the page opens on the circuit view with less to
+// download. The service worker stores the split files too, so they open
+// offline like the rest.
+
+/// The duty-cycle view, loaded on first use.
+#[lazy]
+fn cycle_view() -> AnyView {
+    view! { <CycleView /> }.into_any()
+}
+
+/// The machine-check view, loaded on first use.
+#[lazy]
+fn field_view() -> AnyView {
+    view! { <FieldView /> }.into_any()
+}
+
+/// Shown while a split view is being fetched (a fraction of a second on
+/// the first open; never again after that).
+fn loading(what: &'static str) -> impl IntoView {
+    view! {
+        <p class="loading" role="status" data-testid="view-loading">
+            {format!("Opening the {what} view…")}
+        </p>
+    }
+}
+
 /// What the page opens with.
 struct Boot {
     design: Design,
@@ -283,8 +311,22 @@ pub fn App() -> impl IntoView {
         <main id="main">
             {move || match st.view.get() {
                 ViewId::Circuit => view! { <CircuitView /> }.into_any(),
-                ViewId::Field => view! { <FieldView /> }.into_any(),
-                ViewId::Cycle => view! { <CycleView /> }.into_any(),
+                ViewId::Field => {
+                    view! {
+                        <Suspense fallback=|| loading("machine-check")>
+                            {Suspend::new(field_view())}
+                        </Suspense>
+                    }
+                        .into_any()
+                }
+                ViewId::Cycle => {
+                    view! {
+                        <Suspense fallback=|| loading("duty-cycle")>
+                            {Suspend::new(cycle_view())}
+                        </Suspense>
+                    }
+                        .into_any()
+                }
             }}
         </main>
         <footer class="foot">

@@ -332,3 +332,36 @@ test('the printed design sheet is one A4 page with inputs, results and both char
     assert.equal(pages, 1);
   });
 });
+
+test('the duty-cycle and machine-check views load on first use, and offline after the first visit', async () => {
+  await withApp(undefined, async (b, page) => {
+    // Requests of the page itself (the service worker's own requests, to
+    // store every file on install, are not the page's download).
+    const fetched = [];
+    b.context.on('request', (r) => {
+      if (!r.serviceWorker()) fetched.push(new URL(r.url()).pathname);
+    });
+    const split = (view) => fetched.filter((p) => p.includes(`split_${view}_view`));
+    await openApp(page);
+    // The page opened without either view's module.
+    assert.deepEqual(split('cycle'), [], 'duty-cycle module not fetched by the page');
+    assert.deepEqual(split('field'), [], 'machine-check module not fetched by the page');
+    await page.evaluate(async () => {
+      await navigator.serviceWorker.ready;
+      if (!navigator.serviceWorker.controller) {
+        await new Promise((ok) => navigator.serviceWorker.addEventListener('controllerchange', ok));
+      }
+    });
+    // The service worker stored them on the first visit: both open offline.
+    await b.context.setOffline(true);
+    await page.getByRole('button', { name: 'Duty cycle', exact: true }).click();
+    await page.waitForSelector('[data-testid="timeline"] svg', { timeout: 15000 });
+    assert.ok(split('cycle').length >= 1, 'duty-cycle module fetched when the view opened');
+    await page.getByRole('button', { name: 'Machine check', exact: true }).click();
+    await page.waitForSelector('[data-testid="field-verdict"]', { timeout: 15000 });
+    assert.ok(split('field').length >= 1, 'machine-check module fetched when the view opened');
+    await page.getByRole('button', { name: 'Circuit', exact: true }).click();
+    await page.waitForSelector('[data-testid="staircase-svg"] .curve-flow');
+    await b.context.setOffline(false);
+  });
+});

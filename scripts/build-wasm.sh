@@ -1,0 +1,70 @@
+#!/usr/bin/env bash
+# Trunk build hook (Trunk.toml): builds the app's wasm and splits it at its
+# `#[lazy]` functions, so the page downloads only what the circuit view
+# needs and fetches the duty-cycle view, the machine-check view, the saved
+# designs panel and the circuit diagram the first time they open.
+#
+#   cargo build (wasm32, relocations kept by .cargo/config.toml)
+#   -> wasm-split-cli   main module + one module per lazy function + shared
+#                       chunks + __wasm_split.js, their loader
+#   -> wasm-bindgen     bindings for the main module (kneepoint.js)
+#   -> wasm-opt -Oz     every module (release only)
+#
+# Writes into $TRUNK_STAGING_DIR (or the folder given as $1).
+set -euo pipefail
+cd "$(dirname "$0")/.."
+export PATH="$HOME/.cargo/bin:$PWD/node_modules/.bin:$PATH"
+
+out="${TRUNK_STAGING_DIR:-${1:-}}"
+[ -n "$out" ] || { echo "build-wasm: no output folder (TRUNK_STAGING_DIR or \$1)" >&2; exit 1; }
+profile="${TRUNK_PROFILE:-release}"
+
+flags=(--offline --target wasm32-unknown-unknown --bin kneepoint-app)
+dir=debug
+if [ "$profile" = release ]; then
+  flags+=(--release)
+  dir=release
+fi
+cargo build "${flags[@]}"
+
+work="target/kneepoint-split"
+rm -rf "$work"
+mkdir -p "$work/pkg"
+wasm-split-cli "target/wasm32-unknown-unknown/$dir/kneepoint-app.wasm" "$work" \
+  --out-name kneepoint >/dev/null
+# --keep-lld-exports: the split modules import functions the main module
+# exports for them.
+wasm-bindgen --target web --keep-lld-exports --no-typescript \
+  --out-name kneepoint --out-dir "$work/pkg" "$work/kneepoint.wasm"
+
+mods=("$work/pkg/kneepoint_bg.wasm")
+for f in "$work"/chunk_*.wasm "$work"/split_*.wasm; do
+  [ -e "$f" ] && mods+=("$f")
+done
+if [ "$profile" = release ]; then
+  for f in "${mods[@]}"; do
+    wasm-opt -Oz --strip-debug --strip-producers --strip-target-features \
+      --enable-bulk-memory --enable-nontrapping-float-to-int \
+      "$f" -o "$f.opt" 2>/dev/null
+    mv "$f.opt" "$f"
+  done
+fi
+
+# One build id in every file name, so a static server's cache never mixes
+# files of two builds. The wasm import names stay as they are; only the
+# addresses the scripts load are renamed.
+loader="$work/__wasm_split.js"
+bind="$work/pkg/kneepoint.js"
+id="$(cat "${mods[@]}" "$loader" "$bind" | sha256sum | cut -c1-16)"
+for f in "${mods[@]}"; do
+  b="$(basename "$f" .wasm)"
+  sed -i "s|\"\./$b\.wasm\"|\"./$b-$id.wasm\"|g" "$loader"
+  cp "$f" "$out/$b-$id.wasm"
+done
+sed -i "s|from \"\./kneepoint\.js\"|from \"./kneepoint-$id.js\"|" "$loader"
+sed -i "s|from \"\./__wasm_split\.js\"|from \"./__wasm_split-$id.js\"|g" "$bind"
+cp "$loader" "$out/__wasm_split-$id.js"
+cp "$bind" "$out/kneepoint-$id.js"
+# The page names the bindings and the main module (index.html).
+echo "$id" > "$out/.kneepoint-build-id"
+echo "build-wasm: build $id, $((${#mods[@]} - 1)) split modules beside the main one"
