@@ -30,9 +30,16 @@ pub mod views;
 /// the duty cycle of the demo design `name` `runs` times and returns the sum
 /// of the cycle times (s), so the work cannot be skipped. The caller times
 /// it; NaN for an unknown or invalid demo. Nothing in the page calls it.
+/// Async because the cycle's code is in a split module (loaded by the
+/// first call, which the bench makes its warm-up).
 #[wasm_bindgen::prelude::wasm_bindgen]
-pub fn bench_cycle(name: &str, runs: u32) -> f64 {
-    let Some(design) = kneepoint_engine::example(name) else {
+pub async fn bench_cycle(name: String, runs: u32) -> f64 {
+    cycle_runs(name, runs).await
+}
+
+#[leptos::prelude::lazy]
+fn cycle_runs(name: String, runs: u32) -> f64 {
+    let Some(design) = kneepoint_engine::example(&name) else {
         return f64::NAN;
     };
     let Ok(circuit) = kneepoint_engine::Circuit::new(&design) else {

@@ -82,6 +82,32 @@ pub struct Good {
 /// The duty-cycle evaluation of the last good design.
 pub type CycleOutcome = Result<CycleReport, CycleError>;
 
+/// The duty cycle of the last good design, for the duty-cycle view and its
+/// parts (context). It is made by that view, so the cycle's code loads with
+/// the view (see `crate::app`), and runs only while the view is open.
+#[derive(Clone, Copy)]
+pub struct CycleState {
+    /// The duty cycle of the last good design (`None` before any).
+    pub cycle: Memo<Option<CycleOutcome>>,
+    /// The last cycle report that ran, kept while the cycle cannot run.
+    pub cycle_shown: Memo<Option<CycleReport>>,
+}
+
+impl CycleState {
+    /// The cycle memos of `st`'s last good circuit.
+    pub fn new(st: &AppState) -> CycleState {
+        let circuit = st.circuit;
+        let cycle = Memo::new(move |_| circuit.with(|c| c.as_ref().map(evaluate_cycle)));
+        let cycle_shown = Memo::new(
+            move |prev: Option<&Option<CycleReport>>| match cycle.get() {
+                Some(Ok(r)) => Some(r),
+                _ => prev.cloned().flatten(),
+            },
+        );
+        CycleState { cycle, cycle_shown }
+    }
+}
+
 /// Signals and memos shared by every view (`Copy`, from context).
 #[derive(Clone, Copy)]
 pub struct AppState {
@@ -105,10 +131,6 @@ pub struct AppState {
     /// The validated circuit of the last good design, built once for every
     /// view that needs it (duty cycle, diagram, machine check).
     pub circuit: Memo<Option<Circuit>>,
-    /// The duty cycle of the last good design (`None` before any).
-    pub cycle: Memo<Option<CycleOutcome>>,
-    /// The last cycle report that ran, kept while the cycle cannot run.
-    pub cycle_shown: Memo<Option<CycleReport>>,
     /// The open view.
     pub view: RwSignal<ViewId>,
     /// Messages at the top of the page.
@@ -144,14 +166,6 @@ impl AppState {
         let circuit = Memo::new(move |_| {
             shown.with(|g| g.as_ref().and_then(|g| Circuit::new(&g.design).ok()))
         });
-        // Lazy: runs only while a view reads it.
-        let cycle = Memo::new(move |_| circuit.with(|c| c.as_ref().map(evaluate_cycle)));
-        let cycle_shown = Memo::new(
-            move |prev: Option<&Option<CycleReport>>| match cycle.get() {
-                Some(Ok(r)) => Some(r),
-                _ => prev.cloned().flatten(),
-            },
-        );
         AppState {
             units: RwSignal::new(units),
             values,
@@ -161,8 +175,6 @@ impl AppState {
             outcome,
             shown,
             circuit,
-            cycle,
-            cycle_shown,
             view: RwSignal::new(ViewId::Circuit),
             notices: RwSignal::new(Vec::new()),
         }

@@ -10,7 +10,7 @@ use leptos::prelude::*;
 use crate::components::cycle_input::{input_id, CycleNumber};
 use crate::components::field::field_id;
 use crate::components::motor_card::{card_row, percent};
-use crate::state::{AppState, ViewId};
+use crate::state::{AppState, CycleState, ViewId};
 
 /// Moves the focus to the input of a design path: on this view when it is
 /// here, else on the Circuit view. Folded groups around it are opened.
@@ -95,9 +95,10 @@ fn go_to(st: AppState, path: &'static str) -> impl IntoView {
 #[component]
 pub fn CycleTotals() -> impl IntoView {
     let st = expect_context::<AppState>();
+    let cy = expect_context::<CycleState>();
     move || {
         let u = st.units.get();
-        st.cycle_shown.with(|r| {
+        cy.cycle_shown.with(|r| {
             let r = r.as_ref()?;
             let t = &r.totals;
             let e = |j: f64| format(Quantity::Energy, u, j);
@@ -192,9 +193,10 @@ fn target_input(
 #[component]
 pub fn TargetsCard() -> impl IntoView {
     let st = expect_context::<AppState>();
+    let cy = expect_context::<CycleState>();
     let results = move || {
         let u = st.units.get();
-        st.cycle_shown.with(|r| {
+        cy.cycle_shown.with(|r| {
             let r = r.as_ref()?;
             if r.requirements.is_empty() {
                 return Some(
@@ -322,9 +324,10 @@ fn kind_code(k: RequirementKind) -> &'static str {
 #[component]
 pub fn CycleWarnings() -> impl IntoView {
     let st = expect_context::<AppState>();
+    let cy = expect_context::<CycleState>();
     let list = move || {
         let u = st.units.get();
-        st.cycle_shown.with(|r| {
+        cy.cycle_shown.with(|r| {
             let r = r.as_ref()?;
             let n = r.warnings.len();
             let items = r

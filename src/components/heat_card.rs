@@ -9,7 +9,7 @@ use leptos::prelude::*;
 
 use crate::components::cycle_input::CycleNumber;
 use crate::components::motor_card::{card_row, percent};
-use crate::state::AppState;
+use crate::state::{AppState, CycleState};
 
 /// A reservoir input: `get` reads it from the design, `set` writes it.
 fn reservoir_input(
@@ -103,9 +103,10 @@ fn reservoir_inputs(st: AppState) -> impl IntoView {
 #[component]
 pub fn HeatCard() -> impl IntoView {
     let st = expect_context::<AppState>();
+    let cy = expect_context::<CycleState>();
     let body = move || {
         let u = st.units.get();
-        st.cycle_shown.with(|r| {
+        cy.cycle_shown.with(|r| {
             let r = r.as_ref()?;
             let h = &r.heat;
             let t = &r.totals;

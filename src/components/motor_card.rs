@@ -7,7 +7,7 @@ use kneepoint_engine::{Quantity, UnitSystem};
 use leptos::prelude::*;
 
 use crate::components::cycle_input::CycleNumber;
-use crate::state::AppState;
+use crate::state::{AppState, CycleState};
 
 /// Percent text of a fraction: 0.734 → "73 %".
 pub fn percent(f: f64) -> String {
@@ -182,9 +182,10 @@ fn motor_inputs(st: AppState) -> impl IntoView {
 #[component]
 pub fn MotorCard() -> impl IntoView {
     let st = expect_context::<AppState>();
+    let cy = expect_context::<CycleState>();
     let body = move || {
         let u = st.units.get();
-        st.cycle_shown.with(|r| {
+        cy.cycle_shown.with(|r| {
             let r = r.as_ref()?;
             let m = &r.motor;
             let t = &r.totals;

@@ -13,7 +13,7 @@ use leptos::prelude::*;
 
 use crate::chart::capitalise;
 use crate::components::cycle_input::{engine_message, CycleNumber};
-use crate::state::AppState;
+use crate::state::{AppState, CycleState};
 
 /// The profile that runs: the design's own, or the one derived from its loads.
 pub fn profile(d: &Design) -> Vec<Segment> {
@@ -350,9 +350,10 @@ fn set_to(s: &mut Segment, v: f64) {
 
 /// The cycle's own error (a stall) for segment `i`, in words.
 fn cycle_error(st: AppState, i: usize) -> Signal<Option<String>> {
+    let cy = expect_context::<CycleState>();
     Signal::derive(move || {
         let u = st.units.get();
-        st.cycle.with(|c| match c {
+        cy.cycle.with(|c| match c {
             Some(Err(e)) if e.segment() == i => Some(e.message(u)),
             _ => None,
         })
@@ -583,9 +584,10 @@ fn hold_input(ed: Editor, i: usize) -> impl IntoView {
 
 /// What segment `i` did in the last cycle that ran, in one line.
 fn segment_result(st: AppState, i: usize) -> impl IntoView {
+    let cy = expect_context::<CycleState>();
     move || {
         let u = st.units.get();
-        st.cycle_shown.with(|r| {
+        cy.cycle_shown.with(|r| {
             let s = r.as_ref()?.segments.get(i)?;
             let mut parts = vec![format!("{} s", crate::fmt::fixed(s.time_s, 2))];
             if s.distance_m > 0.0 {

@@ -9,7 +9,7 @@ use leptos::prelude::*;
 
 use crate::chart::{capitalise, Frame, Scale};
 use crate::components::charts::{axes, interactive_svg, num};
-use crate::state::AppState;
+use crate::state::{AppState, CycleState};
 use crate::timeline_geom::{self, band_label_y, Label, SegmentBand};
 
 /// The cycle time under the pointer (s), shared by both timeline charts.
@@ -76,9 +76,10 @@ pub fn MotionTimelineChart(
     width: Signal<f64>,
 ) -> impl IntoView {
     let st = expect_context::<AppState>();
+    let cy = expect_context::<CycleState>();
     let geom = Memo::new(move |_| {
         let (u, w) = (st.units.get(), width.get());
-        st.cycle_shown
+        cy.cycle_shown
             .with(|r| r.as_ref().map(|r| timeline_geom::motion(r, u, w)))
     });
     move || {
@@ -125,9 +126,10 @@ pub fn PowerTimelineChart(
     width: Signal<f64>,
 ) -> impl IntoView {
     let st = expect_context::<AppState>();
+    let cy = expect_context::<CycleState>();
     let geom = Memo::new(move |_| {
         let (u, w) = (st.units.get(), width.get());
-        st.cycle_shown
+        cy.cycle_shown
             .with(|r| r.as_ref().map(|r| timeline_geom::power(r, u, w)))
     });
     move || {
@@ -180,11 +182,12 @@ pub fn PowerTimelineChart(
 #[component]
 pub fn TimeReadout() -> impl IntoView {
     let st = expect_context::<AppState>();
+    let cy = expect_context::<CycleState>();
     let c = expect_context::<TimeCursor>().0;
     let text = move || {
         let u = st.units.get();
         let t = c.get()?;
-        st.cycle_shown.with(|r| {
+        cy.cycle_shown.with(|r| {
             let r = r.as_ref()?;
             let g = timeline_geom::read_at(r, t)?;
             let label = r.segments.get(g.segment).map_or("", |s| s.label);

@@ -17,16 +17,17 @@ use crate::components::segments::ProfileEditor;
 use crate::components::timeline::{
     MotionTimelineChart, PowerTimelineChart, TimeCursor, TimeReadout, TimelineLegend,
 };
-use crate::state::AppState;
+use crate::state::{AppState, CycleState};
 
 /// What is on screen when the design or the cycle cannot be evaluated.
 #[component]
 fn CycleStatus() -> impl IntoView {
     let st = expect_context::<AppState>();
+    let cy = expect_context::<CycleState>();
     move || {
         let u = st.units.get();
         let invalid = st.outcome.with(|o| o.as_ref().err().map(|e| e.0.len()));
-        let stall = st.cycle.with(|c| match c {
+        let stall = cy.cycle.with(|c| match c {
             Some(Err(e)) => Some(e.message(u)),
             _ => None,
         });
@@ -101,6 +102,7 @@ fn more_cycle_inputs(st: AppState) -> impl IntoView {
 #[component]
 pub fn CycleView() -> impl IntoView {
     let st = expect_context::<AppState>();
+    provide_context(CycleState::new(&st));
     provide_context(TimeCursor(RwSignal::new(None)));
     let charts_box = NodeRef::<leptos::html::Div>::new();
     let width = use_box_width(charts_box);

@@ -75,10 +75,10 @@ const cycleWasm = await page.evaluate(async () => {
   const out = {};
   for (const name of ['workshop-press', 'baler', 'clamp']) {
     const per = [];
-    m.bench_cycle(name, 20); // warm-up
+    await m.bench_cycle(name, 20); // warm-up (the first call loads the cycle's module)
     for (let i = 0; i < 11; i++) {
       const t0 = performance.now();
-      const s = m.bench_cycle(name, 50);
+      const s = await m.bench_cycle(name, 50);
       per.push(((performance.now() - t0) / 50) * 1000);
       if (!(s > 0)) throw new Error(`bench_cycle(${name}) gave ${s}`);
     }
