@@ -27,10 +27,11 @@ if [ "$profile" = release ]; then
 fi
 cargo build "${flags[@]}"
 
-work="target/kneepoint-split"
+target="${CARGO_TARGET_DIR:-target}"
+work="$target/kneepoint-split"
 rm -rf "$work"
-mkdir -p "$work/pkg"
-wasm-split-cli "target/wasm32-unknown-unknown/$dir/kneepoint-app.wasm" "$work" \
+mkdir -p "$work/pkg" "$out"
+wasm-split-cli "$target/wasm32-unknown-unknown/$dir/kneepoint-app.wasm" "$work" \
   --out-name kneepoint >/dev/null
 # --keep-lld-exports: the split modules import functions the main module
 # exports for them.

@@ -12,10 +12,10 @@ use crate::components::charts::Cursor;
 use crate::components::faults::FaultFlag;
 use crate::components::safety::SafetyPanel;
 use crate::state::{AppState, NoticeKind, ViewId};
-use crate::url_codec;
 use crate::views::circuit::CircuitView;
 use crate::views::cycle::CycleView;
 use crate::views::field::FieldView;
+use crate::{design_text, url_codec};
 
 // The duty-cycle and machine-check views are split out of the main wasm
 // and fetched the first time they open (`#[lazy]`, split at build time by
@@ -53,70 +53,93 @@ struct Boot {
     notice: Option<String>,
 }
 
-/// The design from the address, else the last session on this device,
-/// else the first demo design. A link that cannot be read gives a notice
-/// and the demo design.
-fn boot() -> Boot {
-    let frag = browser::fragment();
-    let from = |s: url_codec::Shared, notice| Boot {
-        design: s.design,
-        units: s.units,
-        view: s.view.as_deref().and_then(ViewId::from_code),
-        notice,
-    };
-    if !frag.trim().is_empty() {
-        return match url_codec::decode(&frag) {
-            Ok(s) => from(s, None),
-            Err(e) => Boot {
-                design: Design::default(),
-                units: UnitSystem::Metric,
-                view: None,
-                notice: Some(e.message()),
-            },
-        };
-    }
-    match browser::storage_get(SESSION_KEY).map(|s| url_codec::decode(&s)) {
-        Some(Ok(s)) => from(s, None),
-        _ => Boot {
+impl Boot {
+    /// The first demo design, with an optional notice.
+    fn demo(notice: Option<String>) -> Boot {
+        Boot {
             design: Design::default(),
             units: UnitSystem::Metric,
             view: None,
+            notice,
+        }
+    }
+
+    fn from(s: url_codec::Shared) -> Boot {
+        Boot {
+            design: s.design,
+            units: s.units,
+            view: s.view.as_deref().and_then(ViewId::from_code),
             notice: None,
+        }
+    }
+}
+
+/// The design from the address, else the last session on this device,
+/// else the first demo design. A link that cannot be read gives a notice
+/// and the demo design. Reading a link loads the design-text module.
+async fn boot_from(frag: String, session: Option<String>) -> Boot {
+    if !frag.trim().is_empty() {
+        return match design_text::decode_link(frag).await {
+            Ok(s) => Boot::from(s),
+            Err(e) => Boot::demo(Some(e)),
+        };
+    }
+    match session {
+        Some(s) => match design_text::decode_link(s).await {
+            Ok(s) => Boot::from(s),
+            Err(_) => Boot::demo(None),
         },
+        None => Boot::demo(None),
     }
 }
 
 /// The link fragment of the state now.
-fn fragment_now(st: &AppState) -> String {
-    url_codec::encode(
-        &st.design.get_untracked(),
+async fn fragment_now(st: AppState) -> String {
+    design_text::encode_link(
+        st.design.get_untracked(),
         st.units.get_untracked(),
-        Some(st.view.get_untracked().code()),
+        st.view.get_untracked().code().to_string(),
     )
+    .await
 }
 
 /// Keeps the address (and the session copy on this device) in step with
 /// the design, a quarter second after the last change, without adding
-/// history entries.
-fn sync_address(st: AppState) {
+/// history entries. With `at_start` false (a first visit on the demo
+/// design) nothing is written until the first change, so the page opens
+/// without the design-text module.
+fn sync_address(st: AppState, at_start: bool) {
     let pending = StoredValue::new(None::<TimeoutHandle>);
     let last = StoredValue::new(String::new());
-    Effect::new(move |_| {
+    // Encodes finish in the order they were asked for; only the latest
+    // one is written.
+    let asked = StoredValue::new(0_u64);
+    Effect::new(move |prev: Option<()>| {
         // Track every part of the link; encode only when the edits pause.
         st.design.track();
         st.units.track();
         st.view.track();
+        if prev.is_none() && !at_start {
+            return;
+        }
         if let Some(h) = pending.get_value() {
             h.clear();
         }
         let h = set_timeout_with_handle(
             move || {
-                let frag = fragment_now(&st);
-                if last.get_value() != frag {
-                    browser::replace_fragment(&frag);
-                    let _ = browser::storage_set(SESSION_KEY, &frag);
-                    last.set_value(frag);
-                }
+                asked.update_value(|n| *n += 1);
+                let ticket = asked.get_value();
+                wasm_bindgen_futures::spawn_local(async move {
+                    let frag = fragment_now(st).await;
+                    if asked.try_get_value() != Some(ticket) {
+                        return;
+                    }
+                    if last.get_value() != frag {
+                        browser::replace_fragment(&frag);
+                        let _ = browser::storage_set(SESSION_KEY, &frag);
+                        last.set_value(frag);
+                    }
+                });
             },
             Duration::from_millis(250),
         )
@@ -126,22 +149,26 @@ fn sync_address(st: AppState) {
     // A link pasted into the address bar of the open page.
     let _ = window_event_listener(leptos::ev::hashchange, move |_| {
         let frag = browser::fragment();
-        if frag.trim().is_empty() || frag == last.get_value() || frag == fragment_now(&st)
-        {
+        if frag.trim().is_empty() || Some(&frag) == last.try_get_value().as_ref() {
             return;
         }
-        match url_codec::decode(&frag) {
-            Ok(s) => {
-                st.units.set(s.units);
-                st.load(s.design);
-                // A pasted link that names a view opens it, as on a fresh load.
-                if let Some(v) = s.view.as_deref().and_then(ViewId::from_code) {
-                    st.view.set(v);
-                }
-                last.set_value(frag);
+        wasm_bindgen_futures::spawn_local(async move {
+            if frag == fragment_now(st).await {
+                return;
             }
-            Err(e) => st.notify(NoticeKind::Problem, e.message()),
-        }
+            match design_text::decode_link(frag.clone()).await {
+                Ok(s) => {
+                    st.units.set(s.units);
+                    st.load(s.design);
+                    // A pasted link that names a view opens it, as on a fresh load.
+                    if let Some(v) = s.view.as_deref().and_then(ViewId::from_code) {
+                        st.view.set(v);
+                    }
+                    last.set_value(frag);
+                }
+                Err(e) => st.notify(NoticeKind::Problem, e),
+            }
+        });
     });
 }
 
@@ -210,9 +237,11 @@ fn ShareLink() -> impl IntoView {
     let st = expect_context::<AppState>();
     let link = RwSignal::new(None::<(String, bool)>);
     let copy = move |_| {
-        let url = format!("{}#{}", browser::page_address(), fragment_now(&st));
-        let copied = browser::copy_to_clipboard(&url);
-        link.set(Some((url, copied)));
+        wasm_bindgen_futures::spawn_local(async move {
+            let url = format!("{}#{}", browser::page_address(), fragment_now(st).await);
+            let copied = browser::copy_to_clipboard(&url);
+            link.set(Some((url, copied)));
+        });
     };
     view! {
         <button type="button" on:click=copy data-testid="copy-link">
@@ -241,10 +270,9 @@ fn ShareLink() -> impl IntoView {
     }
 }
 
-/// The whole page.
-#[component]
-pub fn App() -> impl IntoView {
-    let b = boot();
+/// The whole page, opening with `b`; `synced` when `b` came from a link
+/// or a session (the design-text module is loaded then).
+fn app(b: Boot, synced: bool) -> impl IntoView {
     let st = AppState::new(b.design, b.units);
     if let Some(v) = b.view {
         st.view.set(v);
@@ -254,7 +282,7 @@ pub fn App() -> impl IntoView {
     if let Some(n) = b.notice {
         st.notify(NoticeKind::Problem, n);
     }
-    sync_address(st);
+    sync_address(st, synced);
     browser::register_service_worker();
     let safety_open = RwSignal::new(false);
     let print = move |_| {
@@ -341,8 +369,22 @@ pub fn App() -> impl IntoView {
     }
 }
 
-/// Starts the app (called by the binary).
+/// Starts the app (called by the binary): at once on a first visit, else
+/// once the link or the last session has been read.
 pub fn start() {
     console_error_panic_hook::set_once();
-    leptos::mount::mount_to_body(App);
+    let frag = browser::fragment();
+    let session = if frag.trim().is_empty() {
+        browser::storage_get(SESSION_KEY)
+    } else {
+        None
+    };
+    if frag.trim().is_empty() && session.is_none() {
+        leptos::mount::mount_to_body(move || app(Boot::demo(None), false));
+        return;
+    }
+    wasm_bindgen_futures::spawn_local(async move {
+        let b = boot_from(frag, session).await;
+        leptos::mount::mount_to_body(move || app(b, true));
+    });
 }

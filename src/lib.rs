@@ -11,6 +11,7 @@ pub mod app;
 pub mod base64url;
 pub mod browser;
 pub mod chart;
+pub mod design_text;
 pub mod components;
 pub mod diagram_geom;
 pub mod field_form;

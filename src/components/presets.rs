@@ -6,6 +6,7 @@ use leptos::prelude::*;
 use wasm_bindgen::JsCast;
 
 use crate::browser::{self, PRESET_PREFIX};
+use crate::design_text;
 use crate::presets::{clean_name, file_name, read_entry, stored_text, Entry};
 use crate::state::{AppState, NoticeKind};
 
@@ -24,53 +25,15 @@ pub fn read_all() -> Vec<Entry> {
         .collect()
 }
 
-/// The saved-designs panel.
+/// The designs panel: demo designs and design files at once; the designs
+/// saved on this device when asked for (their part of the wasm loads then).
 #[component]
 pub fn Presets() -> impl IntoView {
     let st = expect_context::<AppState>();
-    let saved = RwSignal::new(read_all());
-    // Damaged entries are reported once, when the page opens.
-    for e in saved.get_untracked() {
-        if let Entry::Broken { name, reason } = e {
-            st.notify(
-                NoticeKind::Problem,
-                format!(
-                    "The saved design “{name}” could not be read ({reason}). It was skipped; \
-                     every other saved design is available."
-                ),
-            );
-        }
-    }
-    let refresh = move || saved.set(read_all());
+    // The name box of the save form, kept here so that opening a demo
+    // design or a file names it even before the saved list is open.
     let name = RwSignal::new(st.rest.with_untracked(|d| d.name.clone()));
-    let confirm_replace = RwSignal::new(false);
-    let message = RwSignal::new(None::<String>);
-
-    let save = move || {
-        let n = match clean_name(&name.get_untracked()) {
-            Ok(n) => n,
-            Err(e) => return message.set(Some(e)),
-        };
-        let exists = saved.with_untracked(|s| s.iter().any(|e| e.name() == n));
-        if exists && !confirm_replace.get_untracked() {
-            confirm_replace.set(true);
-            return message.set(Some(format!(
-                "“{n}” is already saved. Press Replace to overwrite it."
-            )));
-        }
-        let text = stored_text(&n, &st.design.get_untracked());
-        match browser::storage_set(&key(&n), &text) {
-            Ok(()) => {
-                st.rest.update(|d| d.name = n.clone());
-                message.set(Some(format!("Saved “{n}” on this device.")));
-            }
-            Err(e) => message.set(Some(format!(
-                "Could not save: {e}. Export a design file instead."
-            ))),
-        }
-        confirm_replace.set(false);
-        refresh();
-    };
+    let show_saved = RwSignal::new(false);
 
     let export = move || {
         let d = st.design.get_untracked();
@@ -79,12 +42,15 @@ pub fn Presets() -> impl IntoView {
         } else {
             d.name.clone()
         };
-        if let Err(e) = browser::download(&file_name(&n), &io::design_to_json(&d)) {
-            st.notify(
-                NoticeKind::Problem,
-                format!("Could not export the design file: {e}."),
-            );
-        }
+        leptos::task::spawn_local(async move {
+            let text = design_text::design_file(d).await;
+            if let Err(e) = browser::download(&file_name(&n), &text) {
+                st.notify(
+                    NoticeKind::Problem,
+                    format!("Could not export the design file: {e}."),
+                );
+            }
+        });
     };
 
     let import = move |ev: web_sys::Event| {
@@ -112,7 +78,11 @@ pub fn Presets() -> impl IntoView {
                 .await
                 .ok()
                 .and_then(|v| v.as_string());
-            match text.as_deref().map(io::parse_design) {
+            let read = match text {
+                Some(t) => Some(design_text::read_design_file(t).await),
+                None => None,
+            };
+            match read {
                 Some(Ok(d)) => {
                     name.set(d.name.clone());
                     st.load(d);
@@ -125,14 +95,6 @@ pub fn Presets() -> impl IntoView {
                 None => st.notify(NoticeKind::Problem, format!("“{fname}” could not be read.")),
             }
         });
-    };
-
-    let list = move || {
-        saved
-            .get()
-            .into_iter()
-            .map(|e| view! { <SavedRow entry=e on_change=Callback::new(move |()| refresh()) name_box=name /> })
-            .collect_view()
     };
 
     view! {
@@ -163,40 +125,27 @@ pub fn Presets() -> impl IntoView {
                     .collect_view()}
             </ul>
             <h3>"Saved on this device"</h3>
-            <form
-                class="save-row"
-                on:submit=move |ev| {
-                    ev.prevent_default();
-                    save();
-                }
-            >
-                <label for="preset-name">"Name"</label>
-                <input
-                    id="preset-name"
-                    type="text"
-                    maxlength="60"
-                    autocomplete="off"
-                    prop:value=move || name.get()
-                    on:input=move |ev| {
-                        name.set(event_target_value(&ev));
-                        confirm_replace.set(false);
-                    }
-                    data-testid="preset-name"
-                />
-                <button type="submit" data-testid="preset-save">
-                    {move || if confirm_replace.get() { "Replace" } else { "Save" }}
-                </button>
-            </form>
-            <p class="field-msg" role="status" data-testid="preset-msg">
-                {move || message.get()}
-            </p>
-            <ul class="saved" data-testid="saved-list">
-                {list}
-            </ul>
             {move || {
-                saved
-                    .with(|s| s.is_empty())
-                    .then(|| view! { <p class="quiet">"Nothing saved yet."</p> })
+                if show_saved.get() {
+                    view! {
+                        <Suspense fallback=|| {
+                            view! { <p class="quiet" role="status">"Opening the saved designs…"</p> }
+                        }>{Suspend::new(saved_designs(name))}</Suspense>
+                    }
+                        .into_any()
+                } else {
+                    view! {
+                        <button
+                            type="button"
+                            aria-expanded="false"
+                            data-testid="saved-show"
+                            on:click=move |_| show_saved.set(true)
+                        >
+                            "Show saved designs"
+                        </button>
+                    }
+                        .into_any()
+                }
             }}
             <h3>"Design files"</h3>
             <div class="file-row">
@@ -216,6 +165,109 @@ pub fn Presets() -> impl IntoView {
                 />
             </div>
         </section>
+    }
+}
+
+/// The designs saved on this device, loaded the first time they are shown.
+#[lazy]
+fn saved_designs(name: RwSignal<String>) -> AnyView {
+    view! { <SavedDesigns name=name /> }.into_any()
+}
+
+/// Save by name, and the list of saved designs (open, rename, delete).
+#[component]
+fn SavedDesigns(
+    /// The name box of the save form.
+    name: RwSignal<String>,
+) -> impl IntoView {
+    let st = expect_context::<AppState>();
+    let saved = RwSignal::new(read_all());
+    // Damaged entries are reported once, when the list is first shown.
+    for e in saved.get_untracked() {
+        if let Entry::Broken { name, reason } = e {
+            st.notify(
+                NoticeKind::Problem,
+                format!(
+                    "The saved design “{name}” could not be read ({reason}). It was skipped; \
+                     every other saved design is available."
+                ),
+            );
+        }
+    }
+    let refresh = move || saved.set(read_all());
+    let confirm_replace = RwSignal::new(false);
+    let message = RwSignal::new(None::<String>);
+
+    let save = move || {
+        let n = match clean_name(&name.get_untracked()) {
+            Ok(n) => n,
+            Err(e) => return message.set(Some(e)),
+        };
+        let exists = saved.with_untracked(|s| s.iter().any(|e| e.name() == n));
+        if exists && !confirm_replace.get_untracked() {
+            confirm_replace.set(true);
+            return message.set(Some(format!(
+                "“{n}” is already saved. Press Replace to overwrite it."
+            )));
+        }
+        let text = stored_text(&n, &st.design.get_untracked());
+        match browser::storage_set(&key(&n), &text) {
+            Ok(()) => {
+                st.rest.update(|d| d.name = n.clone());
+                message.set(Some(format!("Saved “{n}” on this device.")));
+            }
+            Err(e) => message.set(Some(format!(
+                "Could not save: {e}. Export a design file instead."
+            ))),
+        }
+        confirm_replace.set(false);
+        refresh();
+    };
+
+    let list = move || {
+        saved
+            .get()
+            .into_iter()
+            .map(|e| view! { <SavedRow entry=e on_change=Callback::new(move |()| refresh()) name_box=name /> })
+            .collect_view()
+    };
+
+    view! {
+        <form
+            class="save-row"
+            on:submit=move |ev| {
+                ev.prevent_default();
+                save();
+            }
+        >
+            <label for="preset-name">"Name"</label>
+            <input
+                id="preset-name"
+                type="text"
+                maxlength="60"
+                autocomplete="off"
+                prop:value=move || name.get()
+                on:input=move |ev| {
+                    name.set(event_target_value(&ev));
+                    confirm_replace.set(false);
+                }
+                data-testid="preset-name"
+            />
+            <button type="submit" data-testid="preset-save">
+                {move || if confirm_replace.get() { "Replace" } else { "Save" }}
+            </button>
+        </form>
+        <p class="field-msg" role="status" data-testid="preset-msg">
+            {move || message.get()}
+        </p>
+        <ul class="saved" data-testid="saved-list">
+            {list}
+        </ul>
+        {move || {
+            saved
+                .with(|s| s.is_empty())
+                .then(|| view! { <p class="quiet">"Nothing saved yet."</p> })
+        }}
     }
 }
 

@@ -64,6 +64,45 @@ fn PrintedInputs() -> impl IntoView {
     }
 }
 
+/// The circuit diagram, loaded the first time it is shown.
+#[lazy]
+fn circuit_diagram() -> AnyView {
+    view! { <CircuitDiagram /> }.into_any()
+}
+
+/// A button that shows the circuit diagram under the charts, and hides it.
+#[component]
+fn DiagramOnDemand() -> impl IntoView {
+    let open = RwSignal::new(false);
+    view! {
+        <button
+            type="button"
+            class="diagram-toggle"
+            aria-expanded=move || open.get().to_string()
+            data-testid="diagram-toggle"
+            on:click=move |_| open.update(|o| *o = !*o)
+        >
+            {move || {
+                if open.get() {
+                    "Hide the circuit diagram"
+                } else {
+                    "Show the circuit diagram (ISO 1219) at the cursor"
+                }
+            }}
+        </button>
+        {move || {
+            open.get()
+                .then(|| {
+                    view! {
+                        <Suspense fallback=|| {
+                            view! { <p class="quiet" role="status">"Drawing the circuit…"</p> }
+                        }>{Suspend::new(circuit_diagram())}</Suspense>
+                    }
+                })
+        }}
+    }
+}
+
 /// Inputs, charts and results for one hi-lo circuit.
 #[component]
 pub fn CircuitView() -> impl IntoView {
@@ -85,8 +124,9 @@ pub fn CircuitView() -> impl IntoView {
                         <PowerChart width=width />
                         <PowerLegend />
                     </figure>
-                    // The circuit at the pressure under the chart cursor.
-                    <CircuitDiagram />
+                    // The circuit at the pressure under the chart cursor,
+                    // shown when asked for (its part of the wasm loads then).
+                    <DiagramOnDemand />
                 </div>
             </section>
             <section class="inputs panel" aria-labelledby="inputs-h">

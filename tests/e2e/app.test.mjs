@@ -198,6 +198,7 @@ test('a broken or tampered link shows a notice and the demo design, and runs not
     await openApp(page, hostile);
     assert.equal(await page.locator('[data-testid="notice"]').count(), 0);
     assert.equal(await page.locator('img[src="x"]').count(), 0);
+    await page.click('[data-testid="saved-show"]');
     assert.equal(await page.locator('[data-testid="preset-name"]').inputValue(), '<img src=x onerror=alert(1)>');
   });
 });
@@ -206,6 +207,8 @@ test('saved designs survive a reload, and a damaged entry does not stop the app'
   await withApp(undefined, async (b, page) => {
     await openApp(page);
     await slide(page, UNLOADING, 40);
+    // The saved list loads when asked for.
+    await page.click('[data-testid="saved-show"]');
     await page.fill('[data-testid="preset-name"]', 'Press A');
     await page.click('[data-testid="preset-save"]');
     await slide(page, UNLOADING, 50);
@@ -216,6 +219,8 @@ test('saved designs survive a reload, and a damaged entry does not stop the app'
     });
     await page.goto(BASE); // no link: a fresh open
     await page.waitForSelector('[data-testid="staircase-svg"] .curve-flow');
+    await page.click('[data-testid="saved-show"]');
+    await page.locator('[data-testid="saved-list"]').waitFor();
     const names = await page.locator('[data-testid="saved-row"]').evaluateAll((els) => els.map((e) => e.dataset.name));
     assert.deepEqual(names, ['Press A', 'Press B']);
     assert.equal(await page.locator('[data-testid="saved-broken"]').count(), 1);
@@ -333,7 +338,7 @@ test('the printed design sheet is one A4 page with inputs, results and both char
   });
 });
 
-test('the duty-cycle and machine-check views load on first use, and offline after the first visit', async () => {
+test('a first visit loads only the main module; the other views load on first use, and offline', async () => {
   await withApp(undefined, async (b, page) => {
     // Requests of the page itself (the service worker's own requests, to
     // store every file on install, are not the page's download).
@@ -343,7 +348,13 @@ test('the duty-cycle and machine-check views load on first use, and offline afte
     });
     const split = (view) => fetched.filter((p) => p.includes(`split_${view}_view`));
     await openApp(page);
-    // The page opened without either view's module.
+    // A first visit draws the circuit view from the main module alone.
+    await page.waitForTimeout(600); // past the address's quarter-second sync
+    const parts = fetched.filter((p) => /\/(split|chunk)_/.test(p));
+    assert.deepEqual(parts, [], 'no split module fetched by a first visit before any edit');
+    // The first edit: the address follows it (the link codec loads then).
+    await slide(page, UNLOADING, 35);
+    await page.waitForFunction(() => location.hash.startsWith('#v=1'));
     assert.deepEqual(split('cycle'), [], 'duty-cycle module not fetched by the page');
     assert.deepEqual(split('field'), [], 'machine-check module not fetched by the page');
     await page.evaluate(async () => {

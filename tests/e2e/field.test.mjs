@@ -150,6 +150,9 @@ test('the circuit view diagram follows the staircase cursor', async () => {
   try {
     const page = await b.page();
     await openApp(page);
+    // The circuit view shows its diagram when asked for.
+    await page.click('[data-testid="diagram-toggle"]');
+    await page.waitForSelector('[data-testid="diagram-main-svg"]');
     const svg = page.locator('[data-testid="staircase-svg"]');
     await svg.focus();
     await page.keyboard.press('Home');
