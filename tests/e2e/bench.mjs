@@ -5,7 +5,10 @@
 //    (the staircase knee moved), and whether the change was in place by
 //    the next animation frame;
 //  - cold load (fresh profile) to the first chart drawn;
-//  - bytes of html, js, wasm and css, raw and gzipped.
+//  - bytes of html, js, wasm and css, gzipped (level 9, what a server
+//    sending gzip transfers): of the files the page fetched on a first
+//    visit up to the first chart, after its first edit, when it opens a
+//    link, after all three views; and of every file of the site.
 import { readdirSync, readFileSync } from 'node:fs';
 import { gzipSync } from 'node:zlib';
 import { join } from 'node:path';
@@ -95,15 +98,74 @@ for (const [n, us] of Object.entries(cycleWasm)) console.log(`duty cycle in wasm
 console.log(`cold load to first chart: median ${pct(loads, 50).toFixed(0)} ms (5 fresh profiles: ${loads.map((x) => x.toFixed(0)).join(', ')} ms)`);
 
 const dist = process.env.KNEEPOINT_DIST || 'dist';
-const files = readdirSync(dist).filter((f) => /\.(html|js|wasm|css)$/.test(f) && f !== 'sw.js');
-let raw = 0;
-let gz = 0;
-for (const kind of ['html', 'js', 'wasm', 'css']) {
-  const fs = files.filter((f) => f.endsWith(`.${kind}`));
-  const r = fs.reduce((n, f) => n + readFileSync(join(dist, f)).length, 0);
-  const g = fs.reduce((n, f) => n + gzipSync(readFileSync(join(dist, f)), { level: 9 }).length, 0);
-  raw += r;
-  gz += g;
-  console.log(`size ${kind.padEnd(4)}: ${(r / 1024).toFixed(1)} KiB raw, ${(g / 1024).toFixed(1)} KiB gzipped (${fs.join(', ')})`);
+const gzipped = new Map();
+const gz = (f) => {
+  if (!gzipped.has(f)) gzipped.set(f, gzipSync(readFileSync(join(dist, f)), { level: 9 }).length);
+  return gzipped.get(f);
+};
+const kb = (n) => `${(n / 1000).toFixed(1)} kB (${(n / 1024).toFixed(1)} KiB)`;
+
+/** A fresh profile; `steps(page)` drives it; the page's own requests of
+ *  site files (not the service worker's, which stores every file in the
+ *  background) are summed gzipped, by kind. */
+async function fetchedBy(steps) {
+  const br = await openBrowser({ width: 1024, height: 768 });
+  const seen = new Set();
+  br.context.on('request', (r) => {
+    if (r.serviceWorker()) return;
+    const f = decodeURIComponent(new URL(r.url()).pathname).replace(/^\//, '') || 'index.html';
+    if (/\.(html|js|wasm|css)$/.test(f) && f !== 'sw.js') seen.add(f);
+  });
+  const p = await br.page();
+  const extra = await steps(p);
+  await br.close();
+  const files = [...seen].sort();
+  const by = {};
+  for (const f of files) by[f.split('.').pop()] = (by[f.split('.').pop()] || 0) + gz(f);
+  return { files, total: files.reduce((n, f) => n + gz(f), 0), by, extra };
 }
-console.log(`size total: ${(raw / 1024).toFixed(1)} KiB raw, ${(gz / 1024).toFixed(1)} KiB gzipped`);
+const settle = (p) => p.waitForTimeout(800);
+const edit = async (p) => {
+  await p.locator('[data-testid="slider-unloading_valve.setting_pa"]').evaluate((el) => {
+    el.value = '35';
+    el.dispatchEvent(new Event('input', { bubbles: true }));
+  });
+  await p.waitForFunction(() => location.hash.startsWith('#v=1'));
+  await settle(p);
+};
+const first = await fetchedBy(async (p) => {
+  await openApp(p);
+  await settle(p);
+});
+const edited = await fetchedBy(async (p) => {
+  await openApp(p);
+  await edit(p);
+  return p.evaluate(() => location.hash);
+});
+const linked = await fetchedBy(async (p) => {
+  await openApp(p, edited.extra);
+  await settle(p);
+});
+const everything = await fetchedBy(async (p) => {
+  await openApp(p);
+  await edit(p);
+  for (const [name, sel] of [['Duty cycle', '[data-testid="timeline"] svg'], ['Machine check', '[data-testid="field-verdict"]']]) {
+    await p.getByRole('button', { name, exact: true }).click();
+    await p.waitForSelector(sel);
+  }
+  await p.getByRole('button', { name: 'Circuit', exact: true }).click();
+  await p.click('[data-testid="diagram-toggle"]');
+  await p.click('[data-testid="saved-show"]');
+  await p.waitForSelector('[data-testid="diagram-main-svg"]');
+  await p.waitForSelector('[data-testid="preset-save"]');
+  await settle(p);
+});
+const line = (what, r) =>
+  console.log(`download, ${what}: ${kb(r.total)} gzipped in ${r.files.length} files (${Object.entries(r.by).map(([k, n]) => `${k} ${(n / 1024).toFixed(1)} KiB`).join(', ')})`);
+line('first visit, to the first chart', first);
+line('first visit, after the first edit (the address follows it)', edited);
+line('opening a link, to the first chart', linked);
+line('after all three views, the saved list and the diagram', everything);
+const all = readdirSync(dist).filter((f) => /\.(html|js|wasm|css)$/.test(f) && f !== 'sw.js');
+console.log(`download, every file of the site: ${kb(all.reduce((n, f) => n + gz(f), 0))} gzipped in ${all.length} files`);
+console.log(`first-visit files: ${first.files.join(', ')}`);
