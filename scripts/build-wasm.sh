@@ -51,6 +51,15 @@ if [ "$profile" = release ]; then
   done
 fi
 
+# The loader starts each fetch before it waits for the chunks the module
+# needs; a fetch that fails meanwhile would be reported as an unhandled
+# rejection although the loader handles it (the split function returns
+# Unloaded). Mark each fetch as handled.
+n_fetch="$(grep -c 'const src = fetch(' "$work/__wasm_split.js" || true)"
+sed -i 's|^\(\s*const src = fetch(.*);\)$|\1 src.catch(() => {});|' "$work/__wasm_split.js"
+[ "$(grep -c 'src.catch(() => {});' "$work/__wasm_split.js" || true)" = "$n_fetch" ] \
+  || { echo "build-wasm: the split loader changed shape; check __wasm_split.js" >&2; exit 1; }
+
 # One build id in every file name, so a static server's cache never mixes
 # files of two builds. The wasm import names stay as they are; only the
 # addresses the scripts load are renamed.

@@ -11,38 +11,30 @@ use crate::browser::{self, SESSION_KEY};
 use crate::components::charts::Cursor;
 use crate::components::faults::FaultFlag;
 use crate::components::safety::SafetyPanel;
+use crate::design_text::{self, TextError};
+use crate::split::{split_view, Unloaded};
 use crate::state::{AppState, NoticeKind, ViewId};
+use crate::url_codec;
 use crate::views::circuit::CircuitView;
 use crate::views::cycle::CycleView;
 use crate::views::field::FieldView;
-use crate::{design_text, url_codec};
+use leptos::wasm_split::wasm_split;
 
 // The duty-cycle and machine-check views are split out of the main wasm
-// and fetched the first time they open (`#[lazy]`, split at build time by
-// scripts/build-wasm.sh): the page opens on the circuit view with less to
-// download. The service worker stores the split files too, so they open
-// offline like the rest.
+// and fetched the first time they open (see `crate::split`): the page opens
+// on the circuit view with less to download. The service worker stores the
+// split files too, so they open offline like the rest.
 
 /// The duty-cycle view, loaded on first use.
-#[lazy]
-fn cycle_view() -> AnyView {
-    view! { <CycleView /> }.into_any()
+#[wasm_split(kneepoint_cycle_view, wasm_split_path = ::leptos::wasm_split, fallible)]
+fn cycle_view() -> Result<AnyView, Unloaded> {
+    Ok(view! { <CycleView /> }.into_any())
 }
 
 /// The machine-check view, loaded on first use.
-#[lazy]
-fn field_view() -> AnyView {
-    view! { <FieldView /> }.into_any()
-}
-
-/// Shown while a split view is being fetched (a fraction of a second on
-/// the first open; never again after that).
-fn loading(what: &'static str) -> impl IntoView {
-    view! {
-        <p class="loading" role="status" data-testid="view-loading">
-            {format!("Opening the {what} view…")}
-        </p>
-    }
+#[wasm_split(kneepoint_field_view, wasm_split_path = ::leptos::wasm_split, fallible)]
+fn field_view() -> Result<AnyView, Unloaded> {
+    Ok(view! { <FieldView /> }.into_any())
 }
 
 /// What the page opens with.
@@ -81,20 +73,22 @@ async fn boot_from(frag: String, session: Option<String>) -> Boot {
     if !frag.trim().is_empty() {
         return match design_text::decode_link(frag).await {
             Ok(s) => Boot::from(s),
-            Err(e) => Boot::demo(Some(e)),
+            Err(e) => Boot::demo(Some(e.message())),
         };
     }
     match session {
         Some(s) => match design_text::decode_link(s).await {
             Ok(s) => Boot::from(s),
-            Err(_) => Boot::demo(None),
+            // A damaged session copy is dropped without a word.
+            Err(TextError::Bad(_)) => Boot::demo(None),
+            Err(e) => Boot::demo(Some(e.message())),
         },
         None => Boot::demo(None),
     }
 }
 
 /// The link fragment of the state now.
-async fn fragment_now(st: AppState) -> String {
+async fn fragment_now(st: AppState) -> Result<String, Unloaded> {
     design_text::encode_link(
         st.design.get_untracked(),
         st.units.get_untracked(),
@@ -130,7 +124,11 @@ fn sync_address(st: AppState, at_start: bool) {
                 asked.update_value(|n| *n += 1);
                 let ticket = asked.get_value();
                 wasm_bindgen_futures::spawn_local(async move {
-                    let frag = fragment_now(st).await;
+                    // Not loaded (offline before the files were stored):
+                    // the next change tries again.
+                    let Ok(frag) = fragment_now(st).await else {
+                        return;
+                    };
                     if asked.try_get_value() != Some(ticket) {
                         return;
                     }
@@ -153,7 +151,7 @@ fn sync_address(st: AppState, at_start: bool) {
             return;
         }
         wasm_bindgen_futures::spawn_local(async move {
-            if frag == fragment_now(st).await {
+            if Ok(&frag) == fragment_now(st).await.as_ref() {
                 return;
             }
             match design_text::decode_link(frag.clone()).await {
@@ -166,7 +164,7 @@ fn sync_address(st: AppState, at_start: bool) {
                     }
                     last.set_value(frag);
                 }
-                Err(e) => st.notify(NoticeKind::Problem, e),
+                Err(e) => st.notify(NoticeKind::Problem, e.message()),
             }
         });
     });
@@ -238,9 +236,14 @@ fn ShareLink() -> impl IntoView {
     let link = RwSignal::new(None::<(String, bool)>);
     let copy = move |_| {
         wasm_bindgen_futures::spawn_local(async move {
-            let url = format!("{}#{}", browser::page_address(), fragment_now(st).await);
-            let copied = browser::copy_to_clipboard(&url);
-            link.set(Some((url, copied)));
+            match fragment_now(st).await {
+                Ok(frag) => {
+                    let url = format!("{}#{frag}", browser::page_address());
+                    let copied = browser::copy_to_clipboard(&url);
+                    link.set(Some((url, copied)));
+                }
+                Err(_) => st.notify(NoticeKind::Problem, Unloaded::message("The link")),
+            }
         });
     };
     view! {
@@ -340,19 +343,11 @@ fn app(b: Boot, synced: bool) -> impl IntoView {
             {move || match st.view.get() {
                 ViewId::Circuit => view! { <CircuitView /> }.into_any(),
                 ViewId::Field => {
-                    view! {
-                        <Suspense fallback=|| loading("machine-check")>
-                            {Suspend::new(field_view())}
-                        </Suspense>
-                    }
+                    split_view("The machine-check view", "Opening the machine-check view…", field_view)
                         .into_any()
                 }
                 ViewId::Cycle => {
-                    view! {
-                        <Suspense fallback=|| loading("duty-cycle")>
-                            {Suspend::new(cycle_view())}
-                        </Suspense>
-                    }
+                    split_view("The duty-cycle view", "Opening the duty-cycle view…", cycle_view)
                         .into_any()
                 }
             }}

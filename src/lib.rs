@@ -11,8 +11,8 @@ pub mod app;
 pub mod base64url;
 pub mod browser;
 pub mod chart;
-pub mod design_text;
 pub mod components;
+pub mod design_text;
 pub mod diagram_geom;
 pub mod field_form;
 pub mod field_record;
@@ -20,6 +20,7 @@ pub mod fmt;
 pub mod model;
 pub mod motor;
 pub mod presets;
+pub mod split;
 pub mod state;
 pub mod summary;
 pub mod ticks;
@@ -35,19 +36,23 @@ pub mod views;
 /// first call, which the bench makes its warm-up).
 #[wasm_bindgen::prelude::wasm_bindgen]
 pub async fn bench_cycle(name: String, runs: u32) -> f64 {
-    cycle_runs(name, runs).await
+    cycle_runs(name, runs).await.unwrap_or(f64::NAN)
 }
 
-#[leptos::prelude::lazy]
-fn cycle_runs(name: String, runs: u32) -> f64 {
+#[leptos::wasm_split::wasm_split(
+    kneepoint_cycle_runs,
+    wasm_split_path = ::leptos::wasm_split,
+    fallible
+)]
+fn cycle_runs(name: String, runs: u32) -> Result<f64, split::Unloaded> {
     let Some(design) = kneepoint_engine::example(&name) else {
-        return f64::NAN;
+        return Ok(f64::NAN);
     };
     let Ok(circuit) = kneepoint_engine::Circuit::new(&design) else {
-        return f64::NAN;
+        return Ok(f64::NAN);
     };
-    (0..runs)
+    Ok((0..runs)
         .filter_map(|_| kneepoint_engine::cycle::evaluate_cycle(&circuit).ok())
         .map(|r| r.totals.cycle_time_s)
-        .sum()
+        .sum())
 }

@@ -6,9 +6,11 @@ use leptos::prelude::*;
 use wasm_bindgen::JsCast;
 
 use crate::browser::{self, PRESET_PREFIX};
-use crate::design_text;
+use crate::design_text::{self, TextError};
 use crate::presets::{clean_name, file_name, read_entry, stored_text, Entry};
+use crate::split::{split_view, Unloaded};
 use crate::state::{AppState, NoticeKind};
+use leptos::wasm_split::wasm_split;
 
 fn key(name: &str) -> String {
     format!("{PRESET_PREFIX}{name}")
@@ -43,7 +45,10 @@ pub fn Presets() -> impl IntoView {
             d.name.clone()
         };
         leptos::task::spawn_local(async move {
-            let text = design_text::design_file(d).await;
+            let Ok(text) = design_text::design_file(d).await else {
+                return st
+                    .notify(NoticeKind::Problem, Unloaded::message("The design file"));
+            };
             if let Err(e) = browser::download(&file_name(&n), &text) {
                 st.notify(
                     NoticeKind::Problem,
@@ -88,10 +93,11 @@ pub fn Presets() -> impl IntoView {
                     st.load(d);
                     st.notify(NoticeKind::Info, format!("Opened the design file “{fname}”."));
                 }
-                Some(Err(e)) => st.notify(
+                Some(Err(TextError::Bad(e))) => st.notify(
                     NoticeKind::Problem,
                     format!("“{fname}” is not a design file Kneepoint reads: {e}. Nothing was changed."),
                 ),
+                Some(Err(e)) => st.notify(NoticeKind::Problem, e.message()),
                 None => st.notify(NoticeKind::Problem, format!("“{fname}” could not be read.")),
             }
         });
@@ -127,11 +133,11 @@ pub fn Presets() -> impl IntoView {
             <h3>"Saved on this device"</h3>
             {move || {
                 if show_saved.get() {
-                    view! {
-                        <Suspense fallback=|| {
-                            view! { <p class="quiet" role="status">"Opening the saved designs…"</p> }
-                        }>{Suspend::new(saved_designs(name))}</Suspense>
-                    }
+                    split_view(
+                        "The list of saved designs",
+                        "Opening the saved designs…",
+                        move || saved_designs(name),
+                    )
                         .into_any()
                 } else {
                     view! {
@@ -169,9 +175,9 @@ pub fn Presets() -> impl IntoView {
 }
 
 /// The designs saved on this device, loaded the first time they are shown.
-#[lazy]
-fn saved_designs(name: RwSignal<String>) -> AnyView {
-    view! { <SavedDesigns name=name /> }.into_any()
+#[wasm_split(kneepoint_saved_designs, wasm_split_path = ::leptos::wasm_split, fallible)]
+fn saved_designs(name: RwSignal<String>) -> Result<AnyView, Unloaded> {
+    Ok(view! { <SavedDesigns name=name /> }.into_any())
 }
 
 /// Save by name, and the list of saved designs (open, rename, delete).

@@ -15,7 +15,9 @@ use crate::components::presets::Presets;
 use crate::components::results::Results;
 use crate::components::safety::SafetyNotes;
 use crate::model::value_text;
+use crate::split::{split_view, Unloaded};
 use crate::state::AppState;
+use leptos::wasm_split::wasm_split;
 
 /// Every input with its value, for the printed sheet only.
 #[component]
@@ -65,9 +67,9 @@ fn PrintedInputs() -> impl IntoView {
 }
 
 /// The circuit diagram, loaded the first time it is shown.
-#[lazy]
-fn circuit_diagram() -> AnyView {
-    view! { <CircuitDiagram /> }.into_any()
+#[wasm_split(kneepoint_circuit_diagram, wasm_split_path = ::leptos::wasm_split, fallible)]
+fn circuit_diagram() -> Result<AnyView, Unloaded> {
+    Ok(view! { <CircuitDiagram /> }.into_any())
 }
 
 /// A button that shows the circuit diagram under the charts, and hides it.
@@ -92,13 +94,7 @@ fn DiagramOnDemand() -> impl IntoView {
         </button>
         {move || {
             open.get()
-                .then(|| {
-                    view! {
-                        <Suspense fallback=|| {
-                            view! { <p class="quiet" role="status">"Drawing the circuit…"</p> }
-                        }>{Suspend::new(circuit_diagram())}</Suspense>
-                    }
-                })
+                .then(|| split_view("The circuit diagram", "Drawing the circuit…", circuit_diagram))
         }}
     }
 }

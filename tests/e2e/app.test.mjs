@@ -346,7 +346,7 @@ test('a first visit loads only the main module; the other views load on first us
     b.context.on('request', (r) => {
       if (!r.serviceWorker()) fetched.push(new URL(r.url()).pathname);
     });
-    const split = (view) => fetched.filter((p) => p.includes(`split_${view}_view`));
+    const split = (view) => fetched.filter((p) => p.includes(`split_kneepoint_${view}_view`));
     await openApp(page);
     // A first visit draws the circuit view from the main module alone.
     await page.waitForTimeout(600); // past the address's quarter-second sync
@@ -375,4 +375,33 @@ test('a first visit loads only the main module; the other views load on first us
     await page.waitForSelector('[data-testid="staircase-svg"] .curve-flow');
     await b.context.setOffline(false);
   });
+});
+
+test('a view whose module cannot be fetched says so, keeps the page working, and opens on a retry', async () => {
+  const b = await openBrowser();
+  try {
+    const page = await b.page();
+    // As if the network dropped before the files were stored.
+    const block = (route) => route.abort();
+    await b.context.route('**/split_kneepoint_cycle_view*', block);
+    await openApp(page);
+    await page.getByRole('button', { name: 'Duty cycle', exact: true }).click();
+    const msg = page.locator('[data-testid="unloaded"]');
+    await msg.waitFor({ timeout: 15000 });
+    assert.match(await msg.textContent(), /could not be loaded.*Reload the page with the network on/);
+    // With the network back, "Try again" opens the view.
+    await b.context.unroute('**/split_kneepoint_cycle_view*', block);
+    await page.getByRole('button', { name: 'Try again' }).click();
+    await page.waitForSelector('[data-testid="timeline"] svg', { timeout: 15000 });
+    // And the rest of the page kept working throughout.
+    await page.getByRole('button', { name: 'Circuit', exact: true }).click();
+    await slide(page, UNLOADING, 45);
+    await page.waitForFunction(
+      () => document.querySelector('[data-knee-kind="unloader_starts"]')?.getAttribute('data-pressure-pa') === '4500000',
+    );
+    const pageErrors = b.watch.errors.filter((e) => e.startsWith('page error'));
+    assert.deepEqual(pageErrors, [], 'no page error (no panic)');
+  } finally {
+    await b.close();
+  }
 });

@@ -1,0 +1,81 @@
+//! Split points: the parts of the app that load the first time they are
+//! needed. Each is a function marked
+//! `#[wasm_split(unique_name, wasm_split_path = ::leptos::wasm_split, fallible)]`
+//! (scripts/build-wasm.sh cuts the wasm there); the name must be unique in
+//! the crate, as it names the module's symbols. Natively each is a plain
+//! async call.
+//!
+//! Loading can fail: the network dropped before the service worker stored
+//! the files, or a new version of the site replaced them while this page
+//! was open. Every split function then returns [`Unloaded`] instead of
+//! panicking, and the page says what to do; a later call tries again.
+
+use leptos::prelude::*;
+
+/// A split module could not be loaded.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct Unloaded;
+
+impl From<leptos::wasm_split::SplitLoaderError> for Unloaded {
+    fn from(_: leptos::wasm_split::SplitLoaderError) -> Self {
+        Unloaded
+    }
+}
+
+impl Unloaded {
+    /// What to tell the user about `what` (a noun phrase).
+    pub fn message(what: &str) -> String {
+        format!(
+            "{what} could not be loaded: the connection dropped, or Kneepoint was updated \
+             while this page was open. Reload the page with the network on; nothing you \
+             entered is lost."
+        )
+    }
+}
+
+/// A split part of the page: `load()` it, showing `waiting` meanwhile; if
+/// it cannot be loaded, say so (`what` names it) with a button that tries
+/// again.
+pub fn split_view<F, Fut>(
+    what: &'static str,
+    waiting: &'static str,
+    load: F,
+) -> impl IntoView
+where
+    F: Fn() -> Fut + Copy + Send + Sync + 'static,
+    Fut: std::future::Future<Output = Result<AnyView, Unloaded>> + Send + 'static,
+{
+    let attempt = RwSignal::new(0_u32);
+    view! {
+        <Suspense fallback=move || {
+            view! {
+                <p class="loading quiet" role="status" data-testid="split-loading">
+                    {waiting}
+                </p>
+            }
+        }>
+            {move || {
+                attempt.track();
+                Suspend::new(async move {
+                    match load().await {
+                        Ok(v) => v,
+                        Err(Unloaded) => {
+                            view! {
+                                <div class="notice problem" role="alert" data-testid="unloaded">
+                                    <p>{Unloaded::message(what)}</p>
+                                    <button
+                                        type="button"
+                                        on:click=move |_| attempt.update(|n| *n += 1)
+                                    >
+                                        "Try again"
+                                    </button>
+                                </div>
+                            }
+                                .into_any()
+                        }
+                    }
+                })
+            }}
+        </Suspense>
+    }
+}
