@@ -8,7 +8,8 @@
 #   -> wasm-split-cli   main module + one module per lazy function + shared
 #                       chunks + __wasm_split.js, their loader
 #   -> wasm-bindgen     bindings for the main module (kneepoint.js)
-#   -> wasm-opt -Oz     every module (release only)
+#   -> wasm-opt -Os     every module (release only; -Os packs the main
+#                       module about 1 KB tighter gzipped than -Oz here)
 #
 # Writes into $TRUNK_STAGING_DIR (or the folder given as $1).
 set -euo pipefail
@@ -44,7 +45,7 @@ for f in "$work"/chunk_*.wasm "$work"/split_*.wasm; do
 done
 if [ "$profile" = release ]; then
   for f in "${mods[@]}"; do
-    wasm-opt -Oz --strip-debug --strip-producers --strip-target-features \
+    wasm-opt -Os --strip-debug --strip-producers --strip-target-features \
       --enable-bulk-memory --enable-nontrapping-float-to-int \
       "$f" -o "$f.opt" 2>/dev/null
     mv "$f.opt" "$f"

@@ -28,12 +28,13 @@ rmSync(idPath);
 {
   const p = join(dir, 'index.html');
   const page = readFileSync(p, 'utf8');
+  // Quoted or not (a minified page drops the quotes).
   const named = page
     // The rust link trunk was told to skip (index.html) has done its job.
-    .replace(/\s*<link data-trunk rel="rust"[^>]*>/, '')
-    .replaceAll('kneepoint.js"', `kneepoint-${id}.js"`)
-    .replaceAll('kneepoint_bg.wasm"', `kneepoint_bg-${id}.wasm"`);
-  if (!named.includes(`data-kneepoint-js="./kneepoint-${id}.js"`)) {
+    .replace(/\s*<link\b[^>]*\bdata-trunk-skip\b[^>]*>/, '')
+    .replace(/(?<![\w-])kneepoint\.js(?=["'\s>])/g, `kneepoint-${id}.js`)
+    .replace(/(?<![\w-])kneepoint_bg\.wasm(?=["'\s>])/g, `kneepoint_bg-${id}.wasm`);
+  if (!new RegExp(`data-kneepoint-js=["']?\\./kneepoint-${id}\\.js`).test(named)) {
     fail('index.html has no data-kneepoint-js="./kneepoint.js" to point at this build');
   }
   writeFileSync(p, named);

@@ -12,7 +12,7 @@ use crate::components::charts::Cursor;
 use crate::components::faults::FaultFlag;
 use crate::components::safety::SafetyPanel;
 use crate::design_text::{self, TextError};
-use crate::split::{split_view, Unloaded};
+use crate::split::{load, split_view, Unloaded};
 use crate::state::{AppState, NoticeKind, ViewId};
 use crate::url_codec;
 use crate::views::circuit::CircuitView;
@@ -343,11 +343,19 @@ fn app(b: Boot, synced: bool) -> impl IntoView {
             {move || match st.view.get() {
                 ViewId::Circuit => view! { <CircuitView /> }.into_any(),
                 ViewId::Field => {
-                    split_view("The machine-check view", "Opening the machine-check view…", field_view)
+                    split_view(
+                        "The machine-check view",
+                        "Opening the machine-check view…",
+                        load(field_view),
+                    )
                         .into_any()
                 }
                 ViewId::Cycle => {
-                    split_view("The duty-cycle view", "Opening the duty-cycle view…", cycle_view)
+                    split_view(
+                        "The duty-cycle view",
+                        "Opening the duty-cycle view…",
+                        load(cycle_view),
+                    )
                         .into_any()
                 }
             }}

@@ -10,6 +10,10 @@
 //! was open. Every split function then returns [`Unloaded`] instead of
 //! panicking, and the page says what to do; a later call tries again.
 
+use std::future::Future;
+use std::pin::Pin;
+use std::sync::Arc;
+
 use leptos::prelude::*;
 
 /// A split module could not be loaded.
@@ -33,18 +37,27 @@ impl Unloaded {
     }
 }
 
-/// A split part of the page: `load()` it, showing `waiting` meanwhile; if
-/// it cannot be loaded, say so (`what` names it) with a button that tries
-/// again.
-pub fn split_view<F, Fut>(
-    what: &'static str,
-    waiting: &'static str,
-    load: F,
-) -> impl IntoView
+/// Loads a split part of the page (boxed, so [`split_view`] is one function
+/// for all of them, not one copy per part).
+pub type SplitLoad = Arc<
+    dyn Fn() -> Pin<Box<dyn Future<Output = Result<AnyView, Unloaded>> + Send>>
+        + Send
+        + Sync,
+>;
+
+/// `f` as a [`SplitLoad`].
+pub fn load<F, Fut>(f: F) -> SplitLoad
 where
-    F: Fn() -> Fut + Copy + Send + Sync + 'static,
-    Fut: std::future::Future<Output = Result<AnyView, Unloaded>> + Send + 'static,
+    F: Fn() -> Fut + Send + Sync + 'static,
+    Fut: Future<Output = Result<AnyView, Unloaded>> + Send + 'static,
 {
+    Arc::new(move || Box::pin(f()))
+}
+
+/// A split part of the page: `load` it, showing `waiting` meanwhile; if it
+/// cannot be loaded, say so (`what` names it) with a button that tries
+/// again.
+pub fn split_view(what: &'static str, waiting: &'static str, load: SplitLoad) -> AnyView {
     let attempt = RwSignal::new(0_u32);
     view! {
         <Suspense fallback=move || {
@@ -56,8 +69,9 @@ where
         }>
             {move || {
                 attempt.track();
+                let next = load();
                 Suspend::new(async move {
-                    match load().await {
+                    match next.await {
                         Ok(v) => v,
                         Err(Unloaded) => {
                             view! {
@@ -78,4 +92,5 @@ where
             }}
         </Suspense>
     }
+    .into_any()
 }

@@ -8,7 +8,7 @@ use wasm_bindgen::JsCast;
 use crate::browser::{self, PRESET_PREFIX};
 use crate::design_text::{self, TextError};
 use crate::presets::{clean_name, file_name, read_entry, stored_text, Entry};
-use crate::split::{split_view, Unloaded};
+use crate::split::{load, split_view, Unloaded};
 use crate::state::{AppState, NoticeKind};
 use leptos::wasm_split::wasm_split;
 
@@ -136,7 +136,7 @@ pub fn Presets() -> impl IntoView {
                     split_view(
                         "The list of saved designs",
                         "Opening the saved designs…",
-                        move || saved_designs(name),
+                        load(move || saved_designs(name)),
                     )
                         .into_any()
                 } else {

@@ -15,7 +15,7 @@ use crate::components::presets::Presets;
 use crate::components::results::Results;
 use crate::components::safety::SafetyNotes;
 use crate::model::value_text;
-use crate::split::{split_view, Unloaded};
+use crate::split::{load, split_view, Unloaded};
 use crate::state::AppState;
 use leptos::wasm_split::wasm_split;
 
@@ -94,7 +94,7 @@ fn DiagramOnDemand() -> impl IntoView {
         </button>
         {move || {
             open.get()
-                .then(|| split_view("The circuit diagram", "Drawing the circuit…", circuit_diagram))
+                .then(|| split_view("The circuit diagram", "Drawing the circuit…", load(circuit_diagram)))
         }}
     }
 }
