@@ -7,7 +7,8 @@
 #   cargo build (wasm32, relocations kept by .cargo/config.toml)
 #   -> wasm-split-cli   main module + one module per lazy function + shared
 #                       chunks + __wasm_split.js, their loader
-#   -> wasm-bindgen     bindings for the main module (kneepoint.js)
+#   -> wasm-bindgen     bindings for the main module (kneepoint.js),
+#                       minified by esbuild with the loader (release only)
 #   -> wasm-opt -Os     every module (release only; -Os packs the main
 #                       module about 1 KB tighter gzipped than -Oz here)
 #
@@ -74,6 +75,13 @@ for f in "${mods[@]}"; do
 done
 sed -i "s|from \"\./kneepoint\.js\"|from \"./kneepoint-$id.js\"|" "$loader"
 sed -i "s|from \"\./__wasm_split\.js\"|from \"./__wasm_split-$id.js\"|g" "$bind"
+if [ "$profile" = release ]; then
+  # The bindings and the loader, minified (esbuild keeps their imports,
+  # exports and the wasm import names, which are string keys).
+  for f in "$loader" "$bind"; do
+    esbuild --minify --format=esm --log-level=warning --allow-overwrite "$f" --outfile="$f"
+  done
+fi
 cp "$loader" "$out/__wasm_split-$id.js"
 cp "$bind" "$out/kneepoint-$id.js"
 # The page names the bindings and the main module (index.html).

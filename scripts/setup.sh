@@ -3,7 +3,7 @@
 # One line per step; fails loudly with the reason.
 # Usage: scripts/setup.sh [web] [browser]
 #   web      crates, wasm target, wasm-bindgen-cli, wasm-split-cli, trunk,
-#            wasm-opt (npm binaryen)
+#            wasm-opt (npm binaryen), esbuild (npm)
 #   browser  Debian chromium + chromedriver, npm packages (playwright-core, axe-core)
 set -euo pipefail
 cd "$(dirname "$0")/.."
@@ -77,7 +77,8 @@ if [ "$want_web" = 1 ]; then
 fi
 
 npm_ready() {
-  [ -x node_modules/.bin/wasm-opt ] && [ -d node_modules/playwright-core ] \
+  [ -x node_modules/.bin/wasm-opt ] && [ -x node_modules/.bin/esbuild ] \
+    && [ -d node_modules/playwright-core ] \
     && [ -d node_modules/axe-core ] \
     && [ "$(cat node_modules/.kneepoint-lock-sha 2>/dev/null)" = "$(sha256sum < package-lock.json)" ]
 }
