@@ -1,11 +1,11 @@
 #!/usr/bin/env bash
 # Trunk build hook (Trunk.toml): builds the app's wasm and splits it at its
-# `#[lazy]` functions, so the page downloads only what the circuit view
+# split functions (src/split.rs), so the page downloads only what the circuit view
 # needs and fetches the duty-cycle view, the machine-check view, the saved
 # designs panel and the circuit diagram the first time they open.
 #
 #   cargo build (wasm32, relocations kept by .cargo/config.toml)
-#   -> wasm-split-cli   main module + one module per lazy function + shared
+#   -> wasm-split-cli   main module + one module per split function + shared
 #                       chunks + __wasm_split.js, their loader
 #   -> wasm-bindgen     bindings for the main module (kneepoint.js),
 #                       minified by esbuild with the loader (release only)

@@ -10,7 +10,7 @@ cd "$(dirname "$0")/.."
 
 WASM_BINDGEN_VERSION=0.2.130
 TRUNK_VERSION=0.21.14
-# Splits the app's wasm at its #[lazy] functions (scripts/build-wasm.sh);
+# Splits the app's wasm at its split functions (scripts/build-wasm.sh);
 # the same release as the wasm_split_helpers that leptos pins in Cargo.lock.
 WASM_SPLIT_VERSION=0.2.3
 export PATH="$HOME/.cargo/bin:$PWD/node_modules/.bin:$PATH"
