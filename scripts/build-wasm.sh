@@ -46,9 +46,14 @@ for f in "$work"/chunk_*.wasm "$work"/split_*.wasm; do
 done
 if [ "$profile" = release ]; then
   for f in "${mods[@]}"; do
-    wasm-opt -Os --strip-debug --strip-producers --strip-target-features \
+    # Its warnings about the split modules' name sections are noise; its
+    # errors are shown.
+    if ! wasm-opt -Os --strip-debug --strip-producers --strip-target-features \
       --enable-bulk-memory --enable-nontrapping-float-to-int \
-      "$f" -o "$f.opt" 2>/dev/null
+      "$f" -o "$f.opt" 2>"$f.log"; then
+      cat "$f.log" >&2
+      exit 1
+    fi
     mv "$f.opt" "$f"
   done
 fi

@@ -56,7 +56,8 @@ impl Boot {
         }
     }
 
-    fn from(s: url_codec::Shared) -> Boot {
+    /// What a link (or the session copy of one) holds.
+    fn linked(s: url_codec::Shared) -> Boot {
         Boot {
             design: s.design,
             units: s.units,
@@ -72,13 +73,13 @@ impl Boot {
 async fn boot_from(frag: String, session: Option<String>) -> Boot {
     if !frag.trim().is_empty() {
         return match design_text::decode_link(frag).await {
-            Ok(s) => Boot::from(s),
+            Ok(s) => Boot::linked(s),
             Err(e) => Boot::demo(Some(e.message())),
         };
     }
     match session {
         Some(s) => match design_text::decode_link(s).await {
-            Ok(s) => Boot::from(s),
+            Ok(s) => Boot::linked(s),
             // A damaged session copy is dropped without a word.
             Err(TextError::Bad(_)) => Boot::demo(None),
             Err(e) => Boot::demo(Some(e.message())),
